@@ -1,0 +1,46 @@
+"""graphinv: exact graph invariants built from Laplacian normal forms.
+
+The data flows one way: loaders (:mod:`graphinv.io`) build graphs, :mod:`graphinv.matrices`
+turns them into exact integer matrices, :mod:`graphinv.normalform` computes Smith and Hermite
+normal forms, and the invariant modules (critical group, spectra, chip-firing, cospectral
+classes) sit on top, with batch processing and reporting above them.
+"""
+
+from __future__ import annotations
+
+from graphinv.errors import (
+    DisconnectedGraphError,
+    GraphFormatError,
+    GraphInvError,
+    InvalidGraphError,
+    InvalidWeightError,
+    StoreError,
+)
+from graphinv.matrices import (
+    LabelledMatrix,
+    adjacency_matrix,
+    distance_matrix,
+    incidence_matrix,
+    laplacian_matrix,
+    reduced_laplacian_matrix,
+    signless_laplacian_matrix,
+)
+
+__version__ = "0.1.0"
+
+__all__ = [
+    "DisconnectedGraphError",
+    "GraphFormatError",
+    "GraphInvError",
+    "InvalidGraphError",
+    "InvalidWeightError",
+    "LabelledMatrix",
+    "StoreError",
+    "__version__",
+    "adjacency_matrix",
+    "distance_matrix",
+    "incidence_matrix",
+    "laplacian_matrix",
+    "reduced_laplacian_matrix",
+    "signless_laplacian_matrix",
+]

@@ -1,0 +1,5 @@
+"""``python -m graphinv``."""
+
+from graphinv.cli import main
+
+main()

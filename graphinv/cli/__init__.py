@@ -1,0 +1,16 @@
+"""The ``graphinv`` command line: a thin layer over the Python API.
+
+Each topic module registers its commands on the one typer app; run ``graphinv --help``.
+"""
+
+from __future__ import annotations
+
+from graphinv.cli import info as _info  # noqa: F401  (registers commands)
+from graphinv.cli._app import app
+
+__all__ = ["app", "main"]
+
+
+def main() -> None:
+    """Entry point of the ``graphinv`` console script and ``python -m graphinv``."""
+    app()
