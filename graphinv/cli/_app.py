@@ -60,8 +60,17 @@ def fail(message: str) -> typer.Exit:
     return typer.Exit(code=2)
 
 
-def command(name: str, **kwargs: Any) -> Callable[[F], F]:
-    """Register a command on :data:`app` that turns library errors into one clean line."""
+def command(name: str, *, on: typer.Typer | None = None, **kwargs: Any) -> Callable[[F], F]:
+    """Register a command that turns library errors into one clean line.
+
+    Parameters
+    ----------
+    name : str
+        The command name.
+    on : typer.Typer, optional
+        A command group made with ``typer.Typer()`` and added with ``app.add_typer``;
+        default the top-level :data:`app`.
+    """
 
     def decorate(function: F) -> F:
         @functools.wraps(function)
@@ -78,7 +87,7 @@ def command(name: str, **kwargs: Any) -> Callable[[F], F]:
                 typer.echo("interrupted", err=True)
                 sys.exit(130)
 
-        app.command(name, **kwargs)(wrapper)
+        (on if on is not None else app).command(name, **kwargs)(wrapper)
         return function
 
     return decorate
