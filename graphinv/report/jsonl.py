@@ -11,9 +11,37 @@ import json
 from collections.abc import Iterable, Mapping
 from typing import IO, Any
 
-__all__ = ["SAFE_INTEGER_LIMIT", "json_safe", "read_json_lines", "to_json_line", "write_json_lines"]
+__all__ = [
+    "SAFE_INTEGER_LIMIT",
+    "decimal_string",
+    "json_safe",
+    "read_json_lines",
+    "to_json_line",
+    "write_json_lines",
+]
 
 SAFE_INTEGER_LIMIT = 2**53
+
+# Python refuses str() of ints beyond 4300 digits by default (CVE-2020-10735); counts of large
+# networks go far past that, so such ints are converted through python-flint instead.
+_PYTHON_STR_BITS = 14_000
+
+
+def decimal_string(value: int) -> str:
+    """The exact decimal digits of an int of any size.
+
+    Examples
+    --------
+    >>> decimal_string(-42)
+    '-42'
+    >>> len(decimal_string(10**10000))
+    10001
+    """
+    if value.bit_length() < _PYTHON_STR_BITS:
+        return str(value)
+    import flint
+
+    return str(flint.fmpz(value))
 
 
 def json_safe(value: Any) -> Any:
@@ -32,7 +60,7 @@ def json_safe(value: Any) -> Any:
     if isinstance(value, bool) or value is None or isinstance(value, (str, float)):
         return value
     if isinstance(value, int):
-        return str(value) if abs(value) >= SAFE_INTEGER_LIMIT else value
+        return decimal_string(value) if abs(value) >= SAFE_INTEGER_LIMIT else value
     if isinstance(value, Mapping):
         return {str(k): json_safe(v) for k, v in value.items()}
     if isinstance(value, Iterable):
