@@ -16,6 +16,14 @@ from graphinv.errors import (
     InvalidWeightError,
     StoreError,
 )
+from graphinv.io import (
+    GraphRecord,
+    family_graph,
+    family_graphs,
+    iter_records,
+    read_graph,
+    read_graphs,
+)
 from graphinv.matrices import (
     LabelledMatrix,
     adjacency_matrix,
@@ -32,6 +40,7 @@ __all__ = [
     "DisconnectedGraphError",
     "GraphFormatError",
     "GraphInvError",
+    "GraphRecord",
     "InvalidGraphError",
     "InvalidWeightError",
     "LabelledMatrix",
@@ -39,8 +48,13 @@ __all__ = [
     "__version__",
     "adjacency_matrix",
     "distance_matrix",
+    "family_graph",
+    "family_graphs",
     "incidence_matrix",
+    "iter_records",
     "laplacian_matrix",
+    "read_graph",
+    "read_graphs",
     "reduced_laplacian_matrix",
     "signless_laplacian_matrix",
 ]
