@@ -16,6 +16,16 @@ from graphinv.errors import (
     InvalidWeightError,
     StoreError,
 )
+from graphinv.group import (
+    CertificationError,
+    CriticalGroup,
+    LogTreeCount,
+    TreeCountCertificate,
+    critical_group,
+    log_spanning_tree_count,
+    matrix_cokernel,
+    spanning_tree_count,
+)
 from graphinv.io import (
     GraphRecord,
     family_graph,
@@ -37,6 +47,8 @@ from graphinv.matrices import (
 __version__ = "0.1.0"
 
 __all__ = [
+    "CertificationError",
+    "CriticalGroup",
     "DisconnectedGraphError",
     "GraphFormatError",
     "GraphInvError",
@@ -44,17 +56,23 @@ __all__ = [
     "InvalidGraphError",
     "InvalidWeightError",
     "LabelledMatrix",
+    "LogTreeCount",
     "StoreError",
+    "TreeCountCertificate",
     "__version__",
     "adjacency_matrix",
+    "critical_group",
     "distance_matrix",
     "family_graph",
     "family_graphs",
     "incidence_matrix",
     "iter_records",
     "laplacian_matrix",
+    "log_spanning_tree_count",
+    "matrix_cokernel",
     "read_graph",
     "read_graphs",
     "reduced_laplacian_matrix",
     "signless_laplacian_matrix",
+    "spanning_tree_count",
 ]
