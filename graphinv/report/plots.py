@@ -1,0 +1,419 @@
+"""Figures: spanning-tree growth, random critical groups, cospectral separation, graph drawings.
+
+Every function returns a ``matplotlib.figure.Figure`` drawn with the non-interactive Agg
+canvas (no pyplot state, no display needed); :func:`save_figure` writes it as PNG and SVG and
+:func:`figure_png` / :func:`figure_svg` give the bytes or text for embedding in a report.
+Measured values are drawn as points or bars and published limits as lines, each labelled with
+its source.
+
+References
+----------
+Temperley 1974 (grid growth); Wood, J. Amer. Math. Soc. 30 (2017) (random critical groups);
+Haemers & Spence, European J. Combin. 25 (2004) (cospectral graphs).
+"""
+
+from __future__ import annotations
+
+import io
+import math
+from collections.abc import Hashable, Mapping, Sequence
+from pathlib import Path
+from typing import TYPE_CHECKING, Any
+
+import networkx as nx
+
+from graphinv._graphs import require_nonempty, weighted_edges
+
+if TYPE_CHECKING:
+    from matplotlib.figure import Figure
+
+    from graphinv.report.growth import GrowthFit
+    from graphinv.report.random_groups import RandomGroupSample
+
+__all__ = [
+    "FIGURE_FORMATS",
+    "figure_png",
+    "figure_svg",
+    "graph_figure",
+    "growth_figure",
+    "random_groups_figure",
+    "save_figure",
+    "separation_figure",
+]
+
+FIGURE_FORMATS = ("png", "svg")
+_DPI = 100
+_MEASURED = "#1f5fa8"
+_LIMIT = "#c0392b"
+_MUTED = "#8c8c8c"
+
+
+def _new_figure(width: float, height: float) -> Figure:
+    from matplotlib.backends.backend_agg import FigureCanvasAgg
+    from matplotlib.figure import Figure
+
+    figure = Figure(figsize=(width, height), dpi=_DPI, layout="constrained")
+    FigureCanvasAgg(figure)
+    return figure
+
+
+def figure_png(figure: Figure) -> bytes:
+    """The figure as PNG bytes.
+
+    Examples
+    --------
+    >>> figure_png(graph_figure(nx.cycle_graph(4)))[:8]
+    b'\\x89PNG\\r\\n\\x1a\\n'
+    """
+    buffer = io.BytesIO()
+    figure.savefig(buffer, format="png", dpi=_DPI)
+    return buffer.getvalue()
+
+
+def figure_svg(figure: Figure) -> str:
+    """The figure as SVG text (fonts as paths, so it renders the same everywhere).
+
+    Examples
+    --------
+    >>> "<svg" in figure_svg(graph_figure(nx.cycle_graph(4)))
+    True
+    """
+    import matplotlib
+
+    buffer = io.StringIO()
+    with matplotlib.rc_context({"svg.fonttype": "path", "svg.hashsalt": "graphinv"}):
+        figure.savefig(buffer, format="svg")
+    return buffer.getvalue()
+
+
+def save_figure(
+    figure: Figure, path: str | Path, *, formats: Sequence[str] = FIGURE_FORMATS
+) -> list[Path]:
+    """Write ``figure`` to ``path`` with each suffix in ``formats``; return the files written.
+
+    ``path`` is a stem: ``figures/growth`` gives ``figures/growth.png`` and
+    ``figures/growth.svg``.  Parent folders are created.
+
+    Examples
+    --------
+    >>> import tempfile
+    >>> with tempfile.TemporaryDirectory() as folder:
+    ...     [p.name for p in save_figure(graph_figure(nx.path_graph(3)), Path(folder) / "p")]
+    ['p.png', 'p.svg']
+    """
+    stem = Path(path)
+    if stem.suffix.lower().lstrip(".") in FIGURE_FORMATS:
+        stem = stem.with_suffix("")
+    stem.parent.mkdir(parents=True, exist_ok=True)
+    written = []
+    for suffix in formats:
+        if suffix not in FIGURE_FORMATS:
+            raise ValueError(f"Argument 'formats' must hold 'png' or 'svg', not {suffix!r}.")
+        target = stem.with_name(f"{stem.name}.{suffix}")
+        if suffix == "png":
+            target.write_bytes(figure_png(figure))
+        else:
+            target.write_text(figure_svg(figure), encoding="utf-8")
+        written.append(target)
+    return written
+
+
+def growth_figure(fit: GrowthFit) -> Figure:
+    """Spanning-tree growth across a family, with the fitted per-vertex constant and its limit.
+
+    Left: ``log10 τ`` against the number of vertices (a log scale for τ), measured points and
+    the fitted curve.  Right: ``τ^(1/N)`` for each graph, approaching the fitted constant
+    ``exp(a)`` and, where one is known, the published limit.
+
+    Examples
+    --------
+    >>> from graphinv.report.growth import fit_growth
+    >>> fit = fit_growth([4, 9, 16], [math.log(4), math.log(192), math.log(100352)])
+    >>> len(growth_figure(fit).axes)
+    2
+
+    References
+    ----------
+    Temperley 1974; Kasteleyn, Physica 27 (1961).
+    """
+    import numpy as np
+
+    figure = _new_figure(9.0, 3.6)
+    left, right = figure.subplots(1, 2)
+    sizes = np.array(fit.vertex_counts, dtype=float)
+    logs = np.array(fit.log_counts)
+    exact = np.array(fit.exact, dtype=bool)
+    ln10 = math.log(10)
+    for mask, label, marker in ((exact, "exact count", "o"), (~exact, "sparse log-determinant", "s")):
+        if mask.any():
+            left.plot(sizes[mask], logs[mask] / ln10, marker, color=_MEASURED, ms=4, label=label)
+    grid = np.linspace(sizes.min(), sizes.max(), 200)
+    left.plot(
+        grid,
+        [fit.predicted_log_count(x) / ln10 for x in grid],
+        "-",
+        color=_MUTED,
+        lw=1,
+        label="least-squares fit",
+    )
+    left.set_xlabel("vertices N")
+    left.set_ylabel("log₁₀ (spanning trees)")
+    left.set_title(f"Spanning trees of the {fit.family}", fontsize=10)
+    left.legend(fontsize=8, frameon=False)
+
+    right.plot(sizes, np.exp(logs / sizes), "o", color=_MEASURED, ms=4, label="τ^(1/N) measured")
+    right.axhline(
+        fit.per_vertex, color=_MUTED, lw=1, ls="--", label=f"fitted exp(a) = {fit.per_vertex:.5f}"
+    )
+    if fit.limit is not None:
+        right.axhline(
+            fit.limit,
+            color=_LIMIT,
+            lw=1.2,
+            label=f"limit {fit.limit:.5f}" + (f"\n{fit.limit_source}" if fit.limit_source else ""),
+        )
+    right.set_xscale("log")
+    right.set_xlabel("vertices N (log scale)")
+    right.set_ylabel("per-vertex growth τ^(1/N)")
+    right.set_title("Per-vertex growth constant", fontsize=10)
+    right.legend(fontsize=7, frameon=False, loc="lower right")
+    return figure
+
+
+def random_groups_figure(sample: RandomGroupSample) -> Figure:
+    """Ranks of sampled critical groups and the fraction cyclic, against Wood's limiting law.
+
+    Left: the fraction of sampled groups of each rank (bars) beside the limiting law (red).
+    Right: the fractions of cyclic groups and of groups with trivial Sylow 2-, 3-, 5-parts,
+    with 95% binomial intervals, beside their limits.
+
+    Examples
+    --------
+    >>> from graphinv.report.random_groups import RandomGroupSample
+    >>> sample = RandomGroupSample(30, "1/2", 1, 100, ((1, 79), (2, 20), (3, 1)),
+    ...                            ((2, 42), (3, 64), (5, 80)), 0)
+    >>> len(random_groups_figure(sample).axes)
+    2
+
+    References
+    ----------
+    Wood, J. Amer. Math. Soc. 30 (2017); Clancy, Kaplan, Leake, Payne, Wood,
+    J. Algebraic Combin. 42 (2015).
+    """
+    import numpy as np
+
+    from graphinv.report.limits import (
+        cyclic_probability_limit,
+        rank_distribution_limit,
+        sylow_trivial_probability_limit,
+    )
+
+    figure = _new_figure(9.0, 3.6)
+    left, right = figure.subplots(1, 2, gridspec_kw={"width_ratios": [1.1, 1]})
+    top = max(max(rank for rank, _ in sample.rank_counts), 3)
+    law = rank_distribution_limit(top)
+    ranks = np.arange(0, top + 1)
+    measured = [sample.rank_fraction(int(r)) for r in ranks]
+    left.bar(ranks - 0.2, measured, width=0.4, color=_MEASURED, label=f"{sample.samples} samples")
+    left.bar(ranks + 0.2, [law[int(r)] for r in ranks], width=0.4, color=_LIMIT, label="limit (Wood 2017)")
+    left.set_xticks(ranks)
+    left.set_xlabel("rank of the critical group (number of invariant factors)")
+    left.set_ylabel("fraction of graphs")
+    left.set_title(f"G({sample.n}, {sample.q}): {sample.spec}", fontsize=9)
+    left.legend(fontsize=8, frameon=False)
+
+    names = ["cyclic"] + [f"no {p}-torsion" for p, _ in sample.sylow_trivial]
+    fractions = [sample.cyclic_fraction] + [c / sample.samples for _, c in sample.sylow_trivial]
+    limits = [cyclic_probability_limit()] + [
+        sylow_trivial_probability_limit(p) for p, _ in sample.sylow_trivial
+    ]
+    errors = [1.96 * math.sqrt(f * (1 - f) / sample.samples) for f in fractions]
+    positions = np.arange(len(names))
+    right.errorbar(
+        positions, fractions, yerr=errors, fmt="o", color=_MEASURED, capsize=3, label="measured (95%)"
+    )
+    right.scatter(positions, limits, marker="_", s=600, color=_LIMIT, label="limit", zorder=3)
+    for x, value in zip(positions, limits, strict=True):
+        right.annotate(f"{value:.4f}", (x, value), textcoords="offset points", xytext=(14, -3), fontsize=7, color=_LIMIT)
+    right.set_xticks(positions, names, fontsize=8)
+    right.set_xlim(-0.5, len(names) - 0.3)
+    right.set_ylim(0, 1)
+    right.set_ylabel("fraction of graphs")
+    right.set_title("cyclic: ∏ ζ(2k+1)⁻¹;  no p-torsion: ∏ (1 − p^(−2k−1))", fontsize=9)
+    right.legend(fontsize=8, frameon=False, loc="lower right")
+    return figure
+
+
+def separation_figure(
+    tallies: Mapping[str, Mapping[str, int]], *, title: str = "Cospectral graphs"
+) -> Figure:
+    """How many graphs have a cospectral mate, and how many of them each invariant separates.
+
+    Parameters
+    ----------
+    tallies : mapping
+        ``{matrix: {"with a mate": k, "<invariant>": separated, ...}}``, e.g. from
+        :func:`graphinv.report.cospectral_tallies`; the ``"with a mate"`` entry is the total
+        and every other entry is drawn beside it.
+    title : str
+
+    Examples
+    --------
+    >>> tallies = {"laplacian": {"with a mate": 4, "critical group": 2, "degree sequence": 4}}
+    >>> len(separation_figure(tallies).axes)
+    1
+
+    References
+    ----------
+    Haemers & Spence, "Enumeration of cospectral graphs", European J. Combin. 25 (2004).
+    """
+    import numpy as np
+
+    figure = _new_figure(8.0, 3.6)
+    axes = figure.subplots()
+    matrices = list(tallies)
+    invariants: list[str] = []
+    for counts in tallies.values():
+        for key in counts:
+            if key != "with a mate" and key not in invariants:
+                invariants.append(key)
+    series = ["with a mate", *invariants]
+    width = 0.8 / max(len(series), 1)
+    colours = [_MUTED, _MEASURED, _LIMIT, "#2e8b57", "#d4a017", "#7b4fa0", "#444444"]
+    positions = np.arange(len(matrices))
+    for i, name in enumerate(series):
+        values = [tallies[m].get(name, 0) for m in matrices]
+        bars = axes.bar(
+            positions + (i - (len(series) - 1) / 2) * width,
+            values,
+            width=width,
+            color=colours[i % len(colours)],
+            label=name if i == 0 else f"separated by {name}",
+        )
+        axes.bar_label(bars, fontsize=7, padding=1)
+    axes.set_xticks(positions, [f"{m}-cospectral" for m in matrices])
+    axes.set_ylabel("graphs")
+    axes.set_title(title, fontsize=10)
+    axes.legend(fontsize=8, frameon=False)
+    axes.margins(y=0.15)
+    return figure
+
+
+def _layout(G: nx.Graph) -> dict[Hashable, tuple[float, float]]:
+    positions = nx.get_node_attributes(G, "pos")
+    if len(positions) == G.number_of_nodes():
+        return {v: (float(p[0]), float(p[1])) for v, p in positions.items()}
+    simple = nx.Graph(G)
+    if G.number_of_nodes() <= 300:
+        try:
+            return dict(nx.kamada_kawai_layout(simple))
+        except Exception:  # scipy's optimizer may fail on odd graphs; a spring layout always works
+            pass
+    return dict(nx.spring_layout(simple, seed=1))
+
+
+def graph_figure(
+    G: nx.Graph,
+    *,
+    values: Mapping[Hashable, float] | None = None,
+    title: str | None = None,
+    value_label: str = "value",
+    labels: bool | None = None,
+    positions: Mapping[Hashable, Sequence[float]] | None = None,
+) -> Figure:
+    """Draw ``G`` with vertices coloured by ``values`` (a configuration, a generator, ...).
+
+    Edges are drawn thicker for higher multiplicity; vertices missing from ``values`` (such as
+    a sink) are drawn hollow.  The layout is the ``pos`` vertex attribute when present, else
+    Kamada–Kawai (spring layout above 300 vertices, seeded).
+
+    Parameters
+    ----------
+    G : networkx graph
+    values : mapping, optional
+        A number per vertex; integer values get a discrete colour scale.
+    title : str, optional
+    value_label : str
+        The colour-bar label.
+    labels : bool, optional
+        Write vertex names (default: when there are at most 40 vertices).
+    positions : mapping, optional
+        Vertex coordinates.
+
+    Examples
+    --------
+    >>> len(graph_figure(nx.cycle_graph(5), values={v: v % 3 for v in range(5)}).axes)
+    2
+
+    References
+    ----------
+    T. Kamada, S. Kawai, "An algorithm for drawing general undirected graphs",
+    Inform. Process. Lett. 31 (1989).
+    """
+    from matplotlib import colormaps
+    from matplotlib.collections import LineCollection
+    from matplotlib.colors import BoundaryNorm, Normalize
+
+    require_nonempty(G)
+    figure = _new_figure(6.0, 5.0)
+    axes = figure.subplots()
+    where = (
+        {v: (float(p[0]), float(p[1])) for v, p in positions.items()}
+        if positions is not None
+        else _layout(G)
+    )
+    segments = []
+    widths = []
+    for u, v, m in weighted_edges(G):
+        segments.append([where[u], where[v]])
+        widths.append(0.8 + 1.2 * (m - 1))
+    axes.add_collection(LineCollection(segments, linewidths=widths, colors="#777777", zorder=1))
+    n = G.number_of_nodes()
+    size = max(12.0, min(260.0, 9000.0 / n))
+    coloured = [v for v in G if values is not None and v in values]
+    hollow = [v for v in G if v not in coloured]
+    if coloured and values is not None:
+        data = [float(values[v]) for v in coloured]
+        integral = all(float(x).is_integer() for x in data)
+        low, high = min(data), max(data)
+        if integral and high - low <= 20:
+            norm: Any = BoundaryNorm([x - 0.5 for x in range(int(low), int(high) + 2)], 256)
+            cmap = colormaps["viridis"]
+        else:
+            norm = Normalize(low, high if high > low else low + 1)
+            cmap = colormaps["viridis"]
+        points = axes.scatter(
+            [where[v][0] for v in coloured],
+            [where[v][1] for v in coloured],
+            c=data,
+            cmap=cmap,
+            norm=norm,
+            s=size,
+            edgecolors="#333333",
+            linewidths=0.5,
+            zorder=2,
+        )
+        bar = figure.colorbar(points, ax=axes, shrink=0.8)
+        bar.set_label(value_label)
+        if integral and high - low <= 20:
+            bar.set_ticks(range(int(low), int(high) + 1))
+    if hollow:
+        axes.scatter(
+            [where[v][0] for v in hollow],
+            [where[v][1] for v in hollow],
+            s=size,
+            facecolors="white" if values is not None else "#9cc3e6",
+            edgecolors="#333333",
+            linewidths=0.8,
+            zorder=2,
+        )
+    if labels if labels is not None else n <= 40:
+        for v in G:
+            x, y = where[v]
+            axes.annotate(str(v), (x, y), textcoords="offset points", xytext=(0, 7), ha="center", fontsize=7)
+    axes.set_aspect("equal", adjustable="datalim")
+    axes.margins(0.08)
+    axes.set_axis_off()
+    if title:
+        axes.set_title(title, fontsize=10)
+    return figure
