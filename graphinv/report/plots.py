@@ -35,8 +35,11 @@ __all__ = [
     "figure_png",
     "figure_svg",
     "graph_figure",
+    "graphs_figure",
     "growth_figure",
     "random_groups_figure",
+    "rank_distribution_figure",
+    "ranking_figure",
     "save_figure",
     "separation_figure",
 ]
@@ -244,6 +247,81 @@ def random_groups_figure(sample: RandomGroupSample) -> Figure:
     return figure
 
 
+def rank_distribution_figure(
+    rank_counts: Mapping[int, int],
+    *,
+    title: str = "Ranks of the critical groups",
+    limit: Mapping[int, float] | None = None,
+) -> Figure:
+    """The number of graphs whose critical group has each rank, with fractions on the bars.
+
+    Parameters
+    ----------
+    rank_counts : mapping
+        ``{rank: number of graphs}``.
+    title : str
+    limit : mapping, optional
+        ``{rank: limiting probability}`` drawn as red marks (e.g. from
+        :func:`graphinv.report.limits.rank_distribution_limit`).
+
+    Examples
+    --------
+    >>> len(rank_distribution_figure({1: 30, 2: 8, 3: 1}).axes)
+    1
+
+    References
+    ----------
+    Wood, J. Amer. Math. Soc. 30 (2017).
+    """
+    figure = _new_figure(6.5, 3.4)
+    axes = figure.subplots()
+    total = sum(rank_counts.values()) or 1
+    ranks = sorted(rank_counts)
+    bars = axes.bar(ranks, [rank_counts[r] / total for r in ranks], color=_MEASURED, width=0.6, label="measured")
+    axes.bar_label(bars, [str(rank_counts[r]) for r in ranks], fontsize=8, padding=1)
+    if limit is not None:
+        axes.scatter(list(limit), list(limit.values()), marker="_", s=500, color=_LIMIT, label="limit", zorder=3)
+        axes.legend(fontsize=8, frameon=False)
+    axes.set_xticks(sorted(set(ranks) | set(limit or ())))
+    axes.set_xlabel("rank (number of invariant factors)")
+    axes.set_ylabel(f"fraction of {sum(rank_counts.values())} graphs")
+    axes.set_title(title, fontsize=10)
+    axes.margins(y=0.15)
+    return figure
+
+
+def ranking_figure(
+    counts: Mapping[str, int], *, title: str = "Spanning trees", xlabel: str = "spanning trees"
+) -> Figure:
+    """Horizontal bars of exact counts on a log scale, largest at the top.
+
+    The bar length is ``log10`` of the count (computed exactly from the integer, so counts far
+    beyond float range still draw); each bar is labelled with the count.
+
+    Examples
+    --------
+    >>> len(ranking_figure({"ring": 14, "ladder": 2911}).axes)
+    1
+    """
+    from graphinv.report.summary import scientific
+
+    ordered = sorted(counts.items(), key=lambda item: item[1])
+    figure = _new_figure(7.5, 0.42 * len(ordered) + 1.2)
+    axes = figure.subplots()
+    lengths = [math.log10(c) if c > 0 else 0.0 for _, c in ordered]
+    bars = axes.barh([name for name, _ in ordered], lengths, color=_MEASURED, height=0.6)
+    axes.bar_label(
+        bars,
+        [str(c) if c < 10**12 else scientific(c, 3) for _, c in ordered],
+        fontsize=8,
+        padding=3,
+    )
+    axes.set_xlabel(f"log₁₀ ({xlabel})")
+    axes.set_title(title, fontsize=10)
+    axes.margins(x=0.18)
+    return figure
+
+
 def separation_figure(
     tallies: Mapping[str, Mapping[str, int]], *, title: str = "Cospectral graphs"
 ) -> Figure:
@@ -312,6 +390,87 @@ def _layout(G: nx.Graph) -> dict[Hashable, tuple[float, float]]:
     return dict(nx.spring_layout(simple, seed=1))
 
 
+def _draw(
+    figure: Figure,
+    axes: Any,
+    G: nx.Graph,
+    where: Mapping[Hashable, tuple[float, float]],
+    values: Mapping[Hashable, float] | None,
+    *,
+    title: str | None,
+    value_label: str,
+    labels: bool | None,
+    colour_bar: bool,
+    scale: tuple[float, float] | None = None,
+) -> None:
+    from matplotlib import colormaps
+    from matplotlib.collections import LineCollection
+
+    segments = []
+    widths = []
+    for u, v, m in weighted_edges(G):
+        segments.append([where[u], where[v]])
+        widths.append(0.8 + 1.2 * (m - 1))
+    axes.add_collection(LineCollection(segments, linewidths=widths, colors="#777777", zorder=1))
+    n = G.number_of_nodes()
+    size = max(12.0, min(260.0, 9000.0 / n))
+    coloured = [v for v in G if values is not None and v in values]
+    hollow = [v for v in G if v not in coloured]
+    if coloured and values is not None:
+        data = [float(values[v]) for v in coloured]
+        norm, ticks = _colour_norm(data, scale)
+        points = axes.scatter(
+            [where[v][0] for v in coloured],
+            [where[v][1] for v in coloured],
+            c=data,
+            cmap=colormaps["viridis"],
+            norm=norm,
+            s=size,
+            edgecolors="#333333",
+            linewidths=0.5,
+            zorder=2,
+        )
+        if colour_bar:
+            bar = figure.colorbar(points, ax=axes, shrink=0.8)
+            bar.set_label(value_label)
+            if ticks is not None:
+                bar.set_ticks(ticks)
+    if hollow:
+        axes.scatter(
+            [where[v][0] for v in hollow],
+            [where[v][1] for v in hollow],
+            s=size,
+            facecolors="white" if values is not None else "#9cc3e6",
+            edgecolors="#333333",
+            linewidths=0.8,
+            zorder=2,
+        )
+    if labels if labels is not None else n <= 40:
+        for v in G:
+            x, y = where[v]
+            axes.annotate(
+                str(v), (x, y), textcoords="offset points", xytext=(0, 7), ha="center", fontsize=7
+            )
+    axes.set_aspect("equal", adjustable="datalim")
+    axes.margins(0.08)
+    axes.set_axis_off()
+    if title:
+        axes.set_title(title, fontsize=9)
+
+
+def _colour_norm(
+    data: Sequence[float], scale: tuple[float, float] | None
+) -> tuple[Any, list[int] | None]:
+    """A discrete norm (and its ticks) for few integer levels, else a continuous one."""
+    from matplotlib.colors import BoundaryNorm, Normalize
+
+    low, high = scale if scale is not None else (min(data), max(data))
+    if all(float(x).is_integer() for x in data) and high - low <= 20:
+        levels = list(range(int(low), int(high) + 1))
+        return BoundaryNorm([x - 0.5 for x in [*levels, levels[-1] + 1]], 256), levels
+    return Normalize(low, high if high > low else low + 1), None
+
+
 def graph_figure(
     G: nx.Graph,
     *,
@@ -331,7 +490,7 @@ def graph_figure(
     ----------
     G : networkx graph
     values : mapping, optional
-        A number per vertex; integer values get a discrete colour scale.
+        A number per vertex; integer values spanning at most 21 levels get a discrete scale.
     title : str, optional
     value_label : str
         The colour-bar label.
@@ -350,70 +509,97 @@ def graph_figure(
     T. Kamada, S. Kawai, "An algorithm for drawing general undirected graphs",
     Inform. Process. Lett. 31 (1989).
     """
-    from matplotlib import colormaps
-    from matplotlib.collections import LineCollection
-    from matplotlib.colors import BoundaryNorm, Normalize
-
     require_nonempty(G)
     figure = _new_figure(6.0, 5.0)
     axes = figure.subplots()
-    where = (
-        {v: (float(p[0]), float(p[1])) for v, p in positions.items()}
-        if positions is not None
-        else _layout(G)
+    where = _positions(G, positions)
+    _draw(
+        figure,
+        axes,
+        G,
+        where,
+        values,
+        title=title,
+        value_label=value_label,
+        labels=labels,
+        colour_bar=True,
     )
-    segments = []
-    widths = []
-    for u, v, m in weighted_edges(G):
-        segments.append([where[u], where[v]])
-        widths.append(0.8 + 1.2 * (m - 1))
-    axes.add_collection(LineCollection(segments, linewidths=widths, colors="#777777", zorder=1))
-    n = G.number_of_nodes()
-    size = max(12.0, min(260.0, 9000.0 / n))
-    coloured = [v for v in G if values is not None and v in values]
-    hollow = [v for v in G if v not in coloured]
-    if coloured and values is not None:
-        data = [float(values[v]) for v in coloured]
-        integral = all(float(x).is_integer() for x in data)
-        low, high = min(data), max(data)
-        if integral and high - low <= 20:
-            norm: Any = BoundaryNorm([x - 0.5 for x in range(int(low), int(high) + 2)], 256)
-            cmap = colormaps["viridis"]
-        else:
-            norm = Normalize(low, high if high > low else low + 1)
-            cmap = colormaps["viridis"]
-        points = axes.scatter(
-            [where[v][0] for v in coloured],
-            [where[v][1] for v in coloured],
-            c=data,
-            cmap=cmap,
-            norm=norm,
-            s=size,
-            edgecolors="#333333",
-            linewidths=0.5,
-            zorder=2,
+    return figure
+
+
+def _positions(
+    G: nx.Graph, positions: Mapping[Hashable, Sequence[float]] | None
+) -> dict[Hashable, tuple[float, float]]:
+    if positions is None:
+        return _layout(G)
+    where = {v: (float(p[0]), float(p[1])) for v, p in positions.items() if v in G}
+    missing = [v for v in G if v not in where]
+    if missing:
+        where.update(_layout(G.subgraph(missing)))
+    return where
+
+
+def graphs_figure(
+    panels: Sequence[tuple[str, nx.Graph, Mapping[Hashable, float] | None]],
+    *,
+    positions: Mapping[Hashable, Sequence[float]] | None = None,
+    value_label: str = "value",
+    columns: int = 3,
+) -> Figure:
+    """Several graphs side by side, sharing one layout and one colour scale.
+
+    Parameters
+    ----------
+    panels : sequence of (title, graph, values or None)
+    positions : mapping, optional
+        Vertex coordinates shared by every panel (default: the layout of the first graph, so
+        graphs on the same vertex set are drawn comparably).
+    value_label : str
+        The colour-bar label (one bar for all panels).
+    columns : int
+        Panels per row.
+
+    Examples
+    --------
+    >>> panels = [("C5", nx.cycle_graph(5), None), ("P5", nx.path_graph(5), None)]
+    >>> len(graphs_figure(panels).axes)
+    2
+    """
+    if not panels:
+        raise ValueError("Argument 'panels' must hold at least one graph.")
+    count = len(panels)
+    columns = max(1, min(columns, count))
+    rows = math.ceil(count / columns)
+    figure = _new_figure(3.4 * columns + 0.8, 3.2 * rows)
+    grid = figure.subplots(rows, columns, squeeze=False)
+    shared = positions if positions is not None else _layout(panels[0][1])
+    numbers = [float(x) for _, _, values in panels if values for x in values.values()]
+    scale = (min(numbers), max(numbers)) if numbers else None
+    for k, (title, G, values) in enumerate(panels):
+        axes = grid[k // columns][k % columns]
+        _draw(
+            figure,
+            axes,
+            G,
+            _positions(G, shared),
+            values,
+            title=title,
+            value_label=value_label,
+            labels=None,
+            colour_bar=False,
+            scale=scale,
         )
-        bar = figure.colorbar(points, ax=axes, shrink=0.8)
+    for k in range(count, rows * columns):
+        grid[k // columns][k % columns].set_axis_off()
+    if scale is not None:
+        from matplotlib import colormaps
+        from matplotlib.cm import ScalarMappable
+
+        norm, ticks = _colour_norm(numbers, scale)
+        bar = figure.colorbar(
+            ScalarMappable(norm, colormaps["viridis"]), ax=grid.ravel().tolist(), shrink=0.7
+        )
         bar.set_label(value_label)
-        if integral and high - low <= 20:
-            bar.set_ticks(range(int(low), int(high) + 1))
-    if hollow:
-        axes.scatter(
-            [where[v][0] for v in hollow],
-            [where[v][1] for v in hollow],
-            s=size,
-            facecolors="white" if values is not None else "#9cc3e6",
-            edgecolors="#333333",
-            linewidths=0.8,
-            zorder=2,
-        )
-    if labels if labels is not None else n <= 40:
-        for v in G:
-            x, y = where[v]
-            axes.annotate(str(v), (x, y), textcoords="offset points", xytext=(0, 7), ha="center", fontsize=7)
-    axes.set_aspect("equal", adjustable="datalim")
-    axes.margins(0.08)
-    axes.set_axis_off()
-    if title:
-        axes.set_title(title, fontsize=10)
+        if ticks is not None:
+            bar.set_ticks(ticks)
     return figure

@@ -16,7 +16,7 @@ from __future__ import annotations
 
 import html
 import math
-from collections.abc import Iterable, Sequence
+from collections.abc import Iterable, Iterator, Sequence
 from dataclasses import dataclass
 from decimal import Decimal
 from typing import TYPE_CHECKING, Any
@@ -38,6 +38,7 @@ __all__ = [
     "format_primary_decomposition",
     "primary_parts",
     "scientific",
+    "summaries",
     "summaries_table",
     "summarize",
     "summary_table",
@@ -346,6 +347,22 @@ def summarize(G: nx.Graph, *, name: str | None = None, spectra: bool = True) -> 
         algebraic_connectivity=connectivity,
         largest_laplacian_eigenvalue=largest,
     )
+
+
+def summaries(
+    source: str, *, format: str | None = None, spectra: bool = True
+) -> Iterator[GraphSummary]:
+    """Summaries of every graph of a file, standard input (``"-"``) or family spec, lazily.
+
+    Examples
+    --------
+    >>> [(s.name, s.spanning_trees) for s in summaries("wheel:3..5", spectra=False)]
+    [('wheel:3', 16), ('wheel:4', 45), ('wheel:5', 121)]
+    """
+    from graphinv.io import read_graphs
+
+    for G in read_graphs(source, format=format):
+        yield summarize(G, spectra=spectra)
 
 
 def summary_table(summary: GraphSummary) -> Table:
