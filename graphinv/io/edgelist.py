@@ -193,9 +193,7 @@ def write_edgelist(G: nx.Graph, target: str | Path | IO[str]) -> None:
         if v not in touched:
             lines.append(_label_text(v))
     header = f"# {name}: " if name else "# "
-    header += (
-        f"{G.number_of_nodes()} vertices, {pairs} edges (multiplicities counted: {total})"
-    )
+    header += f"{G.number_of_nodes()} vertices, {pairs} edges (multiplicities counted: {total})"
     text = "\n".join([header, *lines]) + "\n"
     if isinstance(target, (str, Path)):
         Path(target).write_text(text, encoding="utf-8")

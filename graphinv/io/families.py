@@ -116,9 +116,7 @@ def _complete(n: int) -> nx.Graph:
 def _multipartite(sizes: Sequence[int]) -> nx.Graph:
     starts = list(itertools.accumulate(sizes, initial=0))
     parts = [range(starts[i], starts[i + 1]) for i in range(len(sizes))]
-    edges = (
-        (u, v) for a, b in itertools.combinations(parts, 2) for u in a for v in b
-    )
+    edges = ((u, v) for a, b in itertools.combinations(parts, 2) for u in a for v in b)
     return _simple_graph(starts[-1], edges)
 
 
@@ -192,7 +190,9 @@ def _irreducible(p: int, k: int) -> list[int]:
             for factor in _monic_polynomials(p, degree)
         ):
             return candidate
-    raise AssertionError(f"no irreducible polynomial of degree {k} over GF({p})")  # pragma: no cover
+    raise AssertionError(
+        f"no irreducible polynomial of degree {k} over GF({p})"
+    )  # pragma: no cover
 
 
 def _paley(q: int) -> nx.Graph:
@@ -328,112 +328,201 @@ _FAMILIES: dict[str, _Family] = {
     f.name: f
     for f in [
         _Family(
-            "complete", "complete:N", "1 parameter N >= 1", "complete graph K_N", "complete:5",
-            _fixed(1), lambda a: a[0] >= 1, lambda a: f"complete:{a[0]}",
+            "complete",
+            "complete:N",
+            "1 parameter N >= 1",
+            "complete graph K_N",
+            "complete:5",
+            _fixed(1),
+            lambda a: a[0] >= 1,
+            lambda a: f"complete:{a[0]}",
             lambda a: _complete(a[0]),
         ),
         _Family(
-            "bipartite", "bipartite:M,N", "2 parameters M,N >= 1",
-            "complete bipartite graph K_{M,N}", "bipartite:3,4",
-            _fixed(2), lambda a: min(a) >= 1, lambda a: f"bipartite:{a[0]},{a[1]}",
+            "bipartite",
+            "bipartite:M,N",
+            "2 parameters M,N >= 1",
+            "complete bipartite graph K_{M,N}",
+            "bipartite:3,4",
+            _fixed(2),
+            lambda a: min(a) >= 1,
+            lambda a: f"bipartite:{a[0]},{a[1]}",
             lambda a: _multipartite(a),
         ),
         _Family(
-            "multipartite", "multipartite:A,B,C,...", "part sizes A,B,C,... >= 1",
-            "complete multipartite graph", "multipartite:2,2,2",
-            _at_least_one, lambda a: min(a) >= 1,
-            lambda a: "multipartite:" + ",".join(map(str, a)), lambda a: _multipartite(a),
+            "multipartite",
+            "multipartite:A,B,C,...",
+            "part sizes A,B,C,... >= 1",
+            "complete multipartite graph",
+            "multipartite:2,2,2",
+            _at_least_one,
+            lambda a: min(a) >= 1,
+            lambda a: "multipartite:" + ",".join(map(str, a)),
+            lambda a: _multipartite(a),
         ),
         _Family(
-            "cycle", "cycle:N", "1 parameter N >= 3", "cycle C_N", "cycle:8",
-            _fixed(1), lambda a: a[0] >= 3, lambda a: f"cycle:{a[0]}",
+            "cycle",
+            "cycle:N",
+            "1 parameter N >= 3",
+            "cycle C_N",
+            "cycle:8",
+            _fixed(1),
+            lambda a: a[0] >= 3,
+            lambda a: f"cycle:{a[0]}",
             lambda a: _simple_graph(a[0], _cycle_edges(a[0])),
         ),
         _Family(
-            "path", "path:N", "1 parameter N >= 1 (vertices)", "path on N vertices", "path:6",
-            _fixed(1), lambda a: a[0] >= 1, lambda a: f"path:{a[0]}",
+            "path",
+            "path:N",
+            "1 parameter N >= 1 (vertices)",
+            "path on N vertices",
+            "path:6",
+            _fixed(1),
+            lambda a: a[0] >= 1,
+            lambda a: f"path:{a[0]}",
             lambda a: _simple_graph(a[0], [(i, i + 1) for i in range(a[0] - 1)]),
         ),
         _Family(
-            "star", "star:N", "1 parameter N >= 1 (leaves)", "star with N leaves", "star:5",
-            _fixed(1), lambda a: a[0] >= 1, lambda a: f"star:{a[0]}",
+            "star",
+            "star:N",
+            "1 parameter N >= 1 (leaves)",
+            "star with N leaves",
+            "star:5",
+            _fixed(1),
+            lambda a: a[0] >= 1,
+            lambda a: f"star:{a[0]}",
             lambda a: _simple_graph(a[0] + 1, [(0, i) for i in range(1, a[0] + 1)]),
         ),
         _Family(
-            "wheel", "wheel:N", "1 parameter N >= 3", "wheel W_N: N spokes, N + 1 vertices",
-            "wheel:6", _fixed(1), lambda a: a[0] >= 3, lambda a: f"wheel:{a[0]}",
+            "wheel",
+            "wheel:N",
+            "1 parameter N >= 3",
+            "wheel W_N: N spokes, N + 1 vertices",
+            "wheel:6",
+            _fixed(1),
+            lambda a: a[0] >= 3,
+            lambda a: f"wheel:{a[0]}",
             lambda a: _simple_graph(
                 a[0] + 1, [(0, i) for i in range(1, a[0] + 1)] + _wheel_rim(a[0])
             ),
         ),
         _Family(
-            "grid", "grid:AxB[xC...]", "sizes AxB[xC...] >= 1 (one size for a square)",
-            "grid graph, vertices row-major", "grid:4x6",
-            _dimensions, lambda a: min(a[0]) >= 1, lambda a: f"grid:{_dims_text(a[0])}",
+            "grid",
+            "grid:AxB[xC...]",
+            "sizes AxB[xC...] >= 1 (one size for a square)",
+            "grid graph, vertices row-major",
+            "grid:4x6",
+            _dimensions,
+            lambda a: min(a[0]) >= 1,
+            lambda a: f"grid:{_dims_text(a[0])}",
             lambda a: _lattice(a[0], wrap=False),
         ),
         _Family(
-            "torus", "torus:AxB[xC...]", "sizes AxB[xC...] >= 3 (one size for a square)",
-            "torus (product of cycles), vertices row-major", "torus:5x5",
-            _dimensions, lambda a: min(a[0]) >= 3, lambda a: f"torus:{_dims_text(a[0])}",
+            "torus",
+            "torus:AxB[xC...]",
+            "sizes AxB[xC...] >= 3 (one size for a square)",
+            "torus (product of cycles), vertices row-major",
+            "torus:5x5",
+            _dimensions,
+            lambda a: min(a[0]) >= 3,
+            lambda a: f"torus:{_dims_text(a[0])}",
             lambda a: _lattice(a[0], wrap=True),
         ),
         _Family(
-            "hypercube", "hypercube:D", "1 parameter D >= 0", "hypercube Q_D on 2^D vertices",
-            "hypercube:4", _fixed(1), lambda a: a[0] >= 0, lambda a: f"hypercube:{a[0]}",
+            "hypercube",
+            "hypercube:D",
+            "1 parameter D >= 0",
+            "hypercube Q_D on 2^D vertices",
+            "hypercube:4",
+            _fixed(1),
+            lambda a: a[0] >= 0,
+            lambda a: f"hypercube:{a[0]}",
             lambda a: _simple_graph(
                 2 ** a[0],
                 [(v, v | 1 << b) for v in range(2 ** a[0]) for b in range(a[0]) if not v >> b & 1],
             ),
         ),
         _Family(
-            "prism", "prism:N", "1 parameter N >= 3", "prism C_N x K_2 on 2N vertices", "prism:6",
-            _fixed(1), lambda a: a[0] >= 3, lambda a: f"prism:{a[0]}",
+            "prism",
+            "prism:N",
+            "1 parameter N >= 3",
+            "prism C_N x K_2 on 2N vertices",
+            "prism:6",
+            _fixed(1),
+            lambda a: a[0] >= 3,
+            lambda a: f"prism:{a[0]}",
             lambda a: _simple_graph(
                 2 * a[0],
-                _cycle_edges(a[0]) + _cycle_edges(a[0], a[0]) + [(i, a[0] + i) for i in range(a[0])],
+                _cycle_edges(a[0])
+                + _cycle_edges(a[0], a[0])
+                + [(i, a[0] + i) for i in range(a[0])],
             ),
         ),
         _Family(
-            "moebius", "moebius:N", "1 parameter N >= 2", "Möbius ladder on 2N vertices",
-            "moebius:5", _fixed(1), lambda a: a[0] >= 2, lambda a: f"moebius:{a[0]}",
+            "moebius",
+            "moebius:N",
+            "1 parameter N >= 2",
+            "Möbius ladder on 2N vertices",
+            "moebius:5",
+            _fixed(1),
+            lambda a: a[0] >= 2,
+            lambda a: f"moebius:{a[0]}",
             lambda a: _simple_graph(
                 2 * a[0], _cycle_edges(2 * a[0]) + [(i, i + a[0]) for i in range(a[0])]
             ),
         ),
         _Family(
-            "circulant", "circulant:N:J1,J2,...",
-            "N >= 3 and distinct jumps 1 <= J <= N/2", "circulant graph with the given jumps",
-            "circulant:10:1,3", _circulant_parse,
-            lambda a: a[0] >= 3
-            and len(set(a[1])) == len(a[1])
-            and all(1 <= j <= a[0] // 2 for j in a[1]),
+            "circulant",
+            "circulant:N:J1,J2,...",
+            "N >= 3 and distinct jumps 1 <= J <= N/2",
+            "circulant graph with the given jumps",
+            "circulant:10:1,3",
+            _circulant_parse,
+            lambda a: (
+                a[0] >= 3 and len(set(a[1])) == len(a[1]) and all(1 <= j <= a[0] // 2 for j in a[1])
+            ),
             lambda a: f"circulant:{a[0]}:" + ",".join(map(str, a[1])),
             lambda a: _circulant(a[0], a[1]),
         ),
         _Family(
-            "petersen", "petersen:N,K", "2 parameters N,K with N >= 3 and 1 <= K < N/2",
-            "generalized Petersen graph GP(N,K)", "petersen:5,2",
-            _fixed(2), lambda a: a[0] >= 3 and a[1] >= 1 and 2 * a[1] < a[0],
-            lambda a: f"petersen:{a[0]},{a[1]}", lambda a: _petersen(a[0], a[1]),
+            "petersen",
+            "petersen:N,K",
+            "2 parameters N,K with N >= 3 and 1 <= K < N/2",
+            "generalized Petersen graph GP(N,K)",
+            "petersen:5,2",
+            _fixed(2),
+            lambda a: a[0] >= 3 and a[1] >= 1 and 2 * a[1] < a[0],
+            lambda a: f"petersen:{a[0]},{a[1]}",
+            lambda a: _petersen(a[0], a[1]),
         ),
         _Family(
-            "paley", "paley:Q", "1 parameter Q, a prime power with Q ≡ 1 (mod 4)",
-            "Paley graph on GF(Q)", "paley:13",
-            _fixed(1), lambda a: a[0] % 4 == 1 and _prime_power(a[0]) is not None,
-            lambda a: f"paley:{a[0]}", lambda a: _paley(a[0]),
+            "paley",
+            "paley:Q",
+            "1 parameter Q, a prime power with Q ≡ 1 (mod 4)",
+            "Paley graph on GF(Q)",
+            "paley:13",
+            _fixed(1),
+            lambda a: a[0] % 4 == 1 and _prime_power(a[0]) is not None,
+            lambda a: f"paley:{a[0]}",
+            lambda a: _paley(a[0]),
         ),
         _Family(
-            "gnp", "gnp:N,P[,seed=S]", "N >= 1, a probability 0 <= P <= 1 and optional seed=S",
-            "random graph G(N,P)", "gnp:20,0.3,seed=7",
+            "gnp",
+            "gnp:N,P[,seed=S]",
+            "N >= 1, a probability 0 <= P <= 1 and optional seed=S",
+            "random graph G(N,P)",
+            "gnp:20,0.3,seed=7",
             _random_parse(lambda t: [_probability(t)]),
             lambda a: a[0] >= 1 and 0.0 <= a[1][1] <= 1.0,
             lambda a: f"gnp:{a[0]},{a[1][0]},seed={a[2]}",
             lambda a: _gnp(a[0], a[1][1], a[2]),
         ),
         _Family(
-            "regular", "regular:N,D[,seed=S]", "N >= 1, 0 <= D < N with N·D even, optional seed=S",
-            "random D-regular graph", "regular:12,3,seed=1",
+            "regular",
+            "regular:N,D[,seed=S]",
+            "N >= 1, 0 <= D < N with N·D even, optional seed=S",
+            "random D-regular graph",
+            "regular:12,3,seed=1",
             _random_parse(_values),
             lambda a: a[0] >= 1 and 0 <= a[1] < a[0] and a[0] * a[1] % 2 == 0,
             lambda a: f"regular:{a[0]},{a[1]},seed={a[2]}",

@@ -163,7 +163,13 @@ def _check_format(format: str | None) -> str | None:
     if format is None:
         return None
     name = format.lower().strip()
-    aliases = {"edgelist": "edges", "edge": "edges", "g6": "graph6", "s6": "sparse6", "adj": "matrix"}
+    aliases = {
+        "edgelist": "edges",
+        "edge": "edges",
+        "g6": "graph6",
+        "s6": "sparse6",
+        "adj": "matrix",
+    }
     name = aliases.get(name, name)
     if name not in FORMATS:
         raise GraphFormatError(f"unknown format {format!r}; expected one of {', '.join(FORMATS)}")
@@ -198,9 +204,7 @@ def _checked_lines(stream: Iterable[str], label: str) -> Iterator[str]:
 
 
 def _looks_graph6(token: str) -> bool:
-    return (
-        all(63 <= ord(c) <= 126 for c in token) and graph6_length(token) == len(token)
-    )
+    return all(63 <= ord(c) <= 126 for c in token) and graph6_length(token) == len(token)
 
 
 def sniff_format(first_line: str) -> str:
@@ -308,12 +312,13 @@ def _coded_items(lines: Iterable[str], label: str, stem: str) -> Iterator[_Item]
     for index, (number, text) in enumerate(itertools.chain(head, entries)):
         name = stem if single else f"{stem}#{index}"
         try:
-            n, edges = parse_sparse6(text) if text[0] in ":;" else parse_graph6(text)
+            coded_sparse = text[0] in ":;"
+            n, edges = parse_sparse6(text) if coded_sparse else parse_graph6(text)
         except GraphFormatError as exc:
             error = GraphFormatError(exc.message, source=label, line=number, graph_index=index)
             yield _Item(index, number, name, None, error)
             continue
-        G, loops = graph_from_edges(n, edges)
+        G, loops = graph_from_edges(n, edges, simple=not coded_sparse)
         if loops:
             warnings.warn(
                 f"{label}, line {number}: {loops} loop(s) dropped "

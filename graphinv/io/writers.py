@@ -136,7 +136,9 @@ def convert_graphs(
     B. D. McKay, formats.txt (graph6 and sparse6).
     """
     if to not in OUTPUT_FORMATS:
-        raise GraphFormatError(f"unknown output format {to!r}; expected one of {', '.join(OUTPUT_FORMATS)}")
+        raise GraphFormatError(
+            f"unknown output format {to!r}; expected one of {', '.join(OUTPUT_FORMATS)}"
+        )
     graphs = read_graphs(source, format=format)
     if to == "graph6":
         return write_graph6(graphs, target)
