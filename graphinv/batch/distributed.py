@@ -42,6 +42,8 @@ class DaskExecutor:
         Whether the ``LocalCluster`` runs its workers as processes (threads otherwise).
     client : distributed.Client, optional
         An existing client to use (it is not closed).
+    connect_timeout : float
+        Seconds to wait for the scheduler.
 
     Raises
     ------
@@ -62,6 +64,7 @@ class DaskExecutor:
         workers: int | None = None,
         processes: bool = True,
         client: Any = None,
+        connect_timeout: float = 20.0,
     ) -> None:
         try:
             from distributed import Client, LocalCluster
@@ -75,7 +78,7 @@ class DaskExecutor:
             self.client = client
         elif scheduler is not None:
             try:
-                self.client = Client(scheduler, timeout="20s")
+                self.client = Client(scheduler, timeout=f"{connect_timeout}s")
             except OSError as exc:
                 raise GraphInvError(f"cannot reach the Dask scheduler {scheduler}: {exc}") from None
         else:
