@@ -54,6 +54,7 @@ __all__ = [
     "MATRIX_KINDS",
     "MatrixKind",
     "SpanningTreeCheck",
+    "SpectralProfile",
     "Spectrum",
     "algebraic_connectivity",
     "characteristic_polynomial",
@@ -65,6 +66,7 @@ __all__ = [
     "graph_matrix",
     "group_eigenvalues",
     "spanning_trees_from_spectrum",
+    "spectral_profile",
 ]
 
 MatrixKind = Literal["laplacian", "signless", "adjacency"]
@@ -636,9 +638,13 @@ def spanning_trees_from_spectrum(
     Prop. 1.3.4.
     """
     spectrum = eigenvalues(G, "laplacian")
-    n = spectrum.vertices
     if exact is None:
         exact = _exact_spanning_trees(G)
+    return _tree_check(spectrum, exact, tolerance)
+
+
+def _tree_check(spectrum: Spectrum, exact: int, tolerance: float) -> SpanningTreeCheck:
+    n = spectrum.vertices
     values = np.asarray(spectrum.values[1:], dtype=np.float64)
     scale = 1e-9 * max(1.0, spectrum.values[-1])
     if n == 1:
@@ -672,3 +678,149 @@ def _exact_spanning_trees(G: nx.Graph) -> int:
     if G.number_of_nodes() == 1:
         return 1
     return int(determinant(reduced_laplacian_matrix(G).to_lists()))
+
+
+@dataclass(frozen=True)
+class SpectralProfile:
+    """What the spectral layer says about one graph: exact polynomial and float eigenvalues.
+
+    Attributes
+    ----------
+    name : str
+    matrix : str
+    vertices : int
+    polynomial : tuple of int or None
+        Exact, highest degree first; ``None`` above ``polynomial_limit`` vertices.
+    spectrum : Spectrum
+        Complete when the graph is small enough for a dense solve, else the extreme
+        eigenvalues at both ends.
+    algebraic_connectivity : float or None
+        Laplacian only (float).
+    trees : SpanningTreeCheck or None
+        Laplacian only, when the full spectrum was computed: the exact count beside the
+        eigenvalue product.
+    """
+
+    name: str
+    matrix: str
+    vertices: int
+    polynomial: tuple[int, ...] | None
+    spectrum: Spectrum
+    algebraic_connectivity: float | None
+    trees: SpanningTreeCheck | None
+
+    def to_record(self) -> dict[str, Any]:
+        """A JSON-ready dict; the polynomial's coefficients beyond 2**53 become strings."""
+        return {
+            "name": self.name,
+            "matrix": self.matrix,
+            "vertices": self.vertices,
+            "polynomial": None if self.polynomial is None else list(self.polynomial),
+            "polynomial_text": None
+            if self.polynomial is None
+            else format_polynomial(self.polynomial),
+            "spectrum": self.spectrum.to_record(),
+            "algebraic_connectivity_float64": self.algebraic_connectivity,
+            "spanning_trees": None if self.trees is None else self.trees.to_record(),
+        }
+
+    def _repr_html_(self) -> str:
+        polynomial = (
+            "not computed (graph too large)"
+            if self.polynomial is None
+            else format_polynomial(self.polynomial)
+        )
+        parts = [
+            f"<p><b>{html.escape(self.name)}</b>: det(xI - {html.escape(self.matrix)}) = "
+            f"{html.escape(polynomial)}</p>",
+            self.spectrum._repr_html_(),
+        ]
+        if self.trees is not None:
+            parts.append(self.trees._repr_html_())
+        return "".join(parts)
+
+
+def spectral_profile(
+    G: nx.Graph,
+    *,
+    matrix: str = "laplacian",
+    polynomial_limit: int = 400,
+    dense_limit: int = 2000,
+    extremes: int = 6,
+    tolerance: float = 1e-8,
+) -> SpectralProfile:
+    """Exact polynomial, eigenvalues and (for L) connectivity and tree-count check of a graph.
+
+    Parameters
+    ----------
+    G : networkx graph
+        Undirected; edge weights are integer multiplicities.
+    matrix : {"laplacian", "signless", "adjacency"}
+    polynomial_limit : int
+        Largest graph whose exact characteristic polynomial is computed.
+    dense_limit : int
+        Largest graph whose full spectrum is computed; bigger graphs get the ``extremes``
+        smallest and largest eigenvalues from the sparse solver.
+    extremes : int
+        How many eigenvalues at each end for graphs above ``dense_limit``.
+    tolerance : float
+        Relative tolerance for grouping eigenvalues.
+
+    Returns
+    -------
+    SpectralProfile
+
+    Examples
+    --------
+    >>> profile = spectral_profile(nx.complete_graph(4))
+    >>> format_polynomial(profile.polynomial), profile.trees.exact, profile.trees.agrees
+    ('x^4 - 12x^3 + 48x^2 - 64x', 16, True)
+
+    References
+    ----------
+    Brouwer & Haemers, *Spectra of Graphs*, 2012; Fiedler 1973; Kirchhoff 1847.
+    """
+    check_matrix_kind(matrix)
+    M = graph_matrix(G, matrix)
+    n = M.shape[0]
+    polynomial = charpoly_of_rows(M.to_lists()) if n <= polynomial_limit else None
+    if n <= dense_limit:
+        spectrum = eigenvalues(G, matrix, tolerance=tolerance)
+    else:
+        count = min(extremes, n)
+        low = eigenvalues(G, matrix, count=count, which="smallest", tolerance=tolerance)
+        high = eigenvalues(G, matrix, count=count, which="largest", tolerance=tolerance)
+        values = tuple(sorted(low.values + high.values))
+        spectrum = Spectrum(
+            matrix=matrix,
+            vertices=n,
+            values=values,
+            groups=group_eigenvalues(values, tolerance),
+            tolerance=tolerance,
+            method=high.method,
+            complete=False,
+        )
+    connectivity = trees = None
+    if matrix == "laplacian":
+        if spectrum.complete:
+            connectivity = 0.0 if n == 1 else spectrum.values[1]
+            if abs(connectivity) <= 1e-9 * max(1.0, spectrum.values[-1]):
+                connectivity = 0.0
+            if polynomial is not None:
+                # Kirchhoff: the coefficient of x in det(xI - L) is (-1)^(n-1) n tau(G).
+                exact = abs(polynomial[-2]) // n if n > 1 else 1
+            else:
+                exact = _exact_spanning_trees(G)
+            trees = _tree_check(spectrum, exact, 1e-6)
+        else:
+            connectivity = algebraic_connectivity(G)
+    name = str(G.graph.get("name") or "graph")
+    return SpectralProfile(
+        name=name,
+        matrix=matrix,
+        vertices=n,
+        polynomial=polynomial,
+        spectrum=spectrum,
+        algebraic_connectivity=connectivity,
+        trees=trees,
+    )

@@ -227,7 +227,7 @@ def godsil_mckay_switch(
     -------
     networkx.Graph
         A new graph on the same vertices; the graph attributes are copied, with ``name``
-        extended to say which set was switched.
+        extended to say which set was switched and ``switching_set`` holding the set.
 
     Raises
     ------
@@ -280,6 +280,7 @@ def godsil_mckay_switch(
                 H.add_edge(outside, c)
     base = G.graph.get("name") or "graph"
     H.graph["name"] = f"{base} switched on {{{', '.join(str(c) for c in c_vertices)}}}"
+    H.graph["switching_set"] = tuple(c_vertices)
     return H
 
 

@@ -293,3 +293,59 @@ def test_compare_counts_spanning_trees_exactly():
     rows = {r.invariant: r for r in compare_graphs(nx.complete_graph(6), nx.path_graph(6)).rows}
     assert rows["spanning_trees"].first == "1296" and rows["spanning_trees"].second == "1"
     assert rows["vertices"].same and not rows["edges"].same
+
+
+# --- command line ----------------------------------------------------------------------------
+
+
+def _write_graph6(path, graphs):
+    from graphinv.io import to_graph6
+
+    path.write_text("".join(to_graph6(G) + "\n" for G in graphs))
+    return str(path)
+
+
+def test_cli_mates_finds_the_signless_pair_and_a_duplicate(cli_runner, tmp_path):
+    from graphinv.cli import app
+
+    # K_{1,3} and K_3 + K_1 are Q-cospectral (common fact); a copy of K_{1,3} is a duplicate
+    graphs = [
+        nx.star_graph(3),
+        nx.disjoint_union(nx.complete_graph(3), nx.empty_graph(1)),
+        nx.relabel_nodes(nx.star_graph(3), {0: 2, 2: 0}),
+    ]
+    source = _write_graph6(tmp_path / "four.g6", graphs)
+    result = cli_runner.invoke(app, ["mates", source, "--matrix", "signless"])
+    assert result.exit_code == 0, result.output
+    assert "signless-cospectral: 2 graphs" in result.output
+    assert "duplicate: four#2 isomorphic to four#0" in result.output
+    result = cli_runner.invoke(app, ["mates", source, "--jsonl"])
+    import json
+
+    records = [json.loads(line) for line in result.output.splitlines()]
+    kinds = [r["record"] for r in records]
+    assert kinds.count("duplicate") == 1 and kinds.count("summary") == 3
+    (found,) = [r for r in records if r["record"] == "class"]
+    assert found["members"] == [0, 1] and found["values"]["critical_group"] == ["0", "Z3"]
+
+
+def test_cli_compare_names_the_first_difference(cli_runner, tmp_path):
+    from graphinv.cli import app
+
+    first = _write_graph6(tmp_path / "star.g6", [nx.star_graph(4)])
+    second = _write_graph6(
+        tmp_path / "square.g6", [nx.disjoint_union(nx.cycle_graph(4), nx.empty_graph(1))]
+    )
+    result = cli_runner.invoke(app, ["compare", first, second])
+    assert result.exit_code == 0, result.output
+    assert "first separated by: degree sequence" in result.output
+    result = cli_runner.invoke(app, ["compare", first, first, "--jsonl"])
+    assert '"isomorphic": true' in result.output
+
+
+def test_cli_compare_needs_single_graphs(cli_runner, tmp_path):
+    from graphinv.cli import app
+
+    two = _write_graph6(tmp_path / "two.g6", [nx.path_graph(3), nx.path_graph(4)])
+    result = cli_runner.invoke(app, ["compare", two, two])
+    assert result.exit_code == 2 and "error:" in result.output

@@ -252,3 +252,32 @@ def test_format_polynomial():
     assert format_polynomial((1, 0, -4, 0, 0, 0)) == "x^5 - 4x^3"
     assert format_polynomial((1, -1)) == "x - 1"
     assert format_polynomial((-2, 3, -1)) == "-2x^2 + 3x - 1"
+
+
+# --- command line ----------------------------------------------------------------------------
+
+
+def test_cli_spectrum_table_and_jsonl(cli_runner):
+    from graphinv.cli import app
+    from graphinv.report.jsonl import json_safe
+
+    result = cli_runner.invoke(app, ["spectrum", "cycle:5"])
+    assert result.exit_code == 0, result.output
+    # L(C_5): x^5 - 10x^4 + 35x^3 - 50x^2 + 25x; 5 spanning trees (common fact: tau(C_n) = n)
+    assert "x^5 - 10x^4 + 35x^3 - 50x^2 + 25x" in result.output
+    assert "spanning trees (exact): 5" in result.output and "float64" in result.output
+    result = cli_runner.invoke(app, ["spectrum", "cycle:4", "--matrix", "adjacency", "--jsonl"])
+    assert result.exit_code == 0, result.output
+    import json
+
+    record = json.loads(result.output.splitlines()[0])
+    assert record["polynomial"] == json_safe([1, 0, -4, 0, 0])  # A(C_4): x^4 - 4x^2
+    assert record["spectrum"]["numeric"] == "float64"
+
+
+def test_cli_spectrum_rejects_a_bad_matrix(cli_runner):
+    from graphinv.cli import app
+
+    result = cli_runner.invoke(app, ["spectrum", "cycle:5", "--matrix", "normal"])
+    assert result.exit_code == 2
+    assert "Argument 'matrix' must be one of" in result.output

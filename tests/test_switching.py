@@ -158,3 +158,24 @@ def test_random_graph_mates_agree_with_sympy(seed):
         assert not nx.is_isomorphic(mates[0], G)
         return
     pytest.fail("no random graph with a Godsil-McKay mate was found")
+
+
+# --- command line ----------------------------------------------------------------------------
+
+
+def test_cli_switch_writes_verified_mates(cli_runner, tmp_path):
+    from graphinv.cli import app
+    from graphinv.io import from_graph6, to_graph6
+
+    G = nx.disjoint_union(nx.cycle_graph(6), nx.empty_graph(1))
+    source = tmp_path / "hexagon.g6"
+    source.write_text(to_graph6(G) + "\n")
+    target = tmp_path / "mates.g6"
+    result = cli_runner.invoke(app, ["switch", str(source), "-o", str(target)])
+    assert result.exit_code == 0, result.output
+    (line,) = target.read_text().split()
+    mate = from_graph6(line)
+    assert _sympy_polynomial(mate, "adjacency") == _sympy_polynomial(G, "adjacency")
+    assert not nx.is_isomorphic(mate, G)
+    result = cli_runner.invoke(app, ["switch", str(source), "--max-size", "3"])
+    assert result.exit_code == 2 and "'max_size'" in result.output

@@ -7,6 +7,9 @@ from __future__ import annotations
 
 from graphinv.cli import batch as _batch  # noqa: F401  (registers commands)
 from graphinv.cli import info as _info  # noqa: F401  (registers commands)
+from graphinv.cli import load as _load  # noqa: F401  (registers commands)
+from graphinv.cli import report as _report  # noqa: F401  (registers commands)
+from graphinv.cli import spectra as _spectra  # noqa: F401  (registers commands)
 from graphinv.cli._app import app
 
 __all__ = ["app", "main"]
