@@ -8,6 +8,24 @@ classes) sit on top, with batch processing and reporting above them.
 
 from __future__ import annotations
 
+from graphinv.chipfiring import (
+    ChipGraph,
+    Configuration,
+    chip_graph,
+    identity_configuration,
+    is_recurrent,
+    recurrent_group,
+    recurrent_identity,
+    stabilize,
+    wired_grid,
+)
+from graphinv.divisors import (
+    canonical_divisor,
+    divisor_rank,
+    genus,
+    is_linearly_equivalent,
+    reduced_divisor,
+)
 from graphinv.errors import (
     DisconnectedGraphError,
     GraphFormatError,
@@ -48,6 +66,8 @@ __version__ = "0.1.0"
 
 __all__ = [
     "CertificationError",
+    "ChipGraph",
+    "Configuration",
     "CriticalGroup",
     "DisconnectedGraphError",
     "GraphFormatError",
@@ -61,18 +81,30 @@ __all__ = [
     "TreeCountCertificate",
     "__version__",
     "adjacency_matrix",
+    "canonical_divisor",
+    "chip_graph",
     "critical_group",
     "distance_matrix",
+    "divisor_rank",
     "family_graph",
     "family_graphs",
+    "genus",
+    "identity_configuration",
     "incidence_matrix",
+    "is_linearly_equivalent",
+    "is_recurrent",
     "iter_records",
     "laplacian_matrix",
     "log_spanning_tree_count",
     "matrix_cokernel",
     "read_graph",
     "read_graphs",
+    "recurrent_group",
+    "recurrent_identity",
+    "reduced_divisor",
     "reduced_laplacian_matrix",
     "signless_laplacian_matrix",
     "spanning_tree_count",
+    "stabilize",
+    "wired_grid",
 ]

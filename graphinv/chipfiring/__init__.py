@@ -15,6 +15,14 @@ from graphinv.chipfiring.configurations import (
     ConfigurationError,
     chip_graph,
 )
+from graphinv.chipfiring.families import WIRED_SINK, wired_grid
+from graphinv.chipfiring.group import (
+    RecurrentGroup,
+    coordinates,
+    from_coordinates,
+    group_generators,
+    recurrent_group,
+)
 from graphinv.chipfiring.recurrents import (
     burning_configuration,
     burning_script,
@@ -36,23 +44,30 @@ from graphinv.chipfiring.stabilize import (
 )
 
 __all__ = [
+    "WIRED_SINK",
     "ChipGraph",
     "Configuration",
     "ConfigurationError",
+    "RecurrentGroup",
     "Stabilization",
     "StabilizationError",
     "burning_configuration",
     "burning_script",
     "chip_graph",
     "configuration_order",
+    "coordinates",
     "equivalent_recurrent",
     "equivalent_superstable",
+    "from_coordinates",
+    "group_generators",
     "identity_configuration",
     "is_recurrent",
     "is_superstable",
     "recurrent_configurations",
+    "recurrent_group",
     "recurrent_identity",
     "recurrent_negative",
     "recurrent_sum",
     "stabilize",
+    "wired_grid",
 ]
