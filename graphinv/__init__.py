@@ -19,6 +19,14 @@ from graphinv.chipfiring import (
     stabilize,
     wired_grid,
 )
+from graphinv.cospectral import (
+    Comparison,
+    CospectralReport,
+    classes_from_keys,
+    compare_graphs,
+    cospectral_classes,
+    find_cospectral,
+)
 from graphinv.divisors import (
     canonical_divisor,
     divisor_rank,
@@ -61,13 +69,24 @@ from graphinv.matrices import (
     reduced_laplacian_matrix,
     signless_laplacian_matrix,
 )
+from graphinv.spectrum import (
+    Spectrum,
+    algebraic_connectivity,
+    characteristic_polynomial,
+    eigenvalues,
+    spanning_trees_from_spectrum,
+    spectral_profile,
+)
+from graphinv.switching import cospectral_mates, godsil_mckay_sets, godsil_mckay_switch
 
 __version__ = "0.1.0"
 
 __all__ = [
     "CertificationError",
     "ChipGraph",
+    "Comparison",
     "Configuration",
+    "CospectralReport",
     "CriticalGroup",
     "DisconnectedGraphError",
     "GraphFormatError",
@@ -77,18 +96,29 @@ __all__ = [
     "InvalidWeightError",
     "LabelledMatrix",
     "LogTreeCount",
+    "Spectrum",
     "StoreError",
     "TreeCountCertificate",
     "__version__",
     "adjacency_matrix",
+    "algebraic_connectivity",
     "canonical_divisor",
+    "characteristic_polynomial",
     "chip_graph",
+    "classes_from_keys",
+    "compare_graphs",
+    "cospectral_classes",
+    "cospectral_mates",
     "critical_group",
     "distance_matrix",
     "divisor_rank",
+    "eigenvalues",
     "family_graph",
     "family_graphs",
+    "find_cospectral",
     "genus",
+    "godsil_mckay_sets",
+    "godsil_mckay_switch",
     "identity_configuration",
     "incidence_matrix",
     "is_linearly_equivalent",
@@ -105,6 +135,8 @@ __all__ = [
     "reduced_laplacian_matrix",
     "signless_laplacian_matrix",
     "spanning_tree_count",
+    "spanning_trees_from_spectrum",
+    "spectral_profile",
     "stabilize",
     "wired_grid",
 ]

@@ -46,6 +46,7 @@ __all__ = [
     "CospectralSummary",
     "PolynomialClasses",
     "canonical_key",
+    "canonical_key_of_edges",
     "classes_from_keys",
     "compare_graphs",
     "cospectral_classes",
@@ -162,6 +163,27 @@ def canonical_key(G: nx.Graph) -> Hashable | None:
     _check_graph(G)
     n, edges = _integer_edges(G)
     return _certificate(n, edges)
+
+
+def canonical_key_of_edges(n: int, edges: Iterable[Sequence[int]]) -> Hashable | None:
+    """:func:`canonical_key` for a graph given as ``n`` and 0-based edges, without networkx.
+
+    Edges are ``(i, j)`` pairs or ``(i, j, multiplicity)`` triples, each unordered pair once
+    (as :func:`graphinv.io.parse_graph6` returns them).  ``None`` for a multiplicity above 1.
+
+    Examples
+    --------
+    >>> canonical_key_of_edges(3, [(0, 1), (1, 2)]) == canonical_key_of_edges(3, [(2, 0), (0, 1)])
+    True
+
+    References
+    ----------
+    McKay & Piperno, "Practical graph isomorphism, II", J. Symbolic Comput. 60 (2014).
+    """
+    triples = [(int(e[0]), int(e[1]), int(e[2]) if len(e) > 2 else 1) for e in edges]
+    if any(not (0 <= i < n and 0 <= j < n) for i, j, _ in triples):
+        raise InvalidGraphError(f"edges must join vertices 0 to {n - 1}")
+    return _certificate(n, [t for t in triples if t[0] != t[1]])
 
 
 def _certificate(n: int, edges: Sequence[tuple[int, int, int]]) -> Hashable | None:
