@@ -183,7 +183,19 @@ def _stem(path: Path) -> str:
     return Path(name).stem or name
 
 
-def _checked_lines(stream: Iterable[str], label: str) -> Iterator[str]:
+def _first_undecodable_line(path: Path) -> tuple[int, str] | None:
+    """Line number and offending bytes of the first line of ``path`` that is not UTF-8."""
+    opener = gzip.open if path.suffix.lower() == ".gz" else open
+    with opener(path, "rb") as raw:
+        for number, line in enumerate(raw, start=1):
+            try:
+                line.decode("utf-8")
+            except UnicodeDecodeError as exc:
+                return number, repr(line[exc.start : exc.end])
+    return None
+
+
+def _checked_lines(stream: Iterable[str], label: str, path: Path | None = None) -> Iterator[str]:
     """Lines of a text stream; undecodable bytes become a GraphFormatError naming the line."""
     iterator = iter(stream)
     number = 0
@@ -192,12 +204,20 @@ def _checked_lines(stream: Iterable[str], label: str) -> Iterator[str]:
             line = next(iterator)
         except StopIteration:
             return
-        except (UnicodeDecodeError, EOFError, OSError) as exc:
+        except UnicodeDecodeError:
+            # Text files decode in blocks, so find the line in the raw bytes.
+            found = _first_undecodable_line(path) if path is not None else None
+            where, what = found if found is not None else (number + 1, "")
             raise GraphFormatError(
-                f"cannot read the text after line {number} ({exc.__class__.__name__}: {exc}); "
-                "expected UTF-8 text",
+                f"the bytes {what} are not UTF-8 text; expected a UTF-8 (or ASCII) text file"
+                if what
+                else "not UTF-8 text; expected a UTF-8 (or ASCII) text file",
                 source=label,
-                line=number + 1,
+                line=where,
+            ) from None
+        except (EOFError, OSError) as exc:
+            raise GraphFormatError(
+                f"cannot read the file after line {number} ({exc})", source=label, line=number + 1
             ) from None
         number += 1
         yield line
@@ -257,9 +277,9 @@ def _opened(source: GraphSourceLike, format: str | None) -> tuple[IO[str], str, 
             source=text,
         )
     if path.suffix.lower() == ".gz":
-        stream: IO[str] = gzip.open(path, "rt", encoding="utf-8")  # noqa: SIM115 - closed by _items
+        stream: IO[str] = gzip.open(path, "rt", encoding="utf-8-sig")  # noqa: SIM115 - closed by _items
     else:
-        stream = open(path, encoding="utf-8")  # noqa: SIM115 - closed by _items
+        stream = open(path, encoding="utf-8-sig")  # noqa: SIM115 - closed by _items
     return stream, text, _stem(path), infer_format(path)
 
 
@@ -276,8 +296,9 @@ def _items(source: GraphSourceLike, format: str | None) -> Iterator[_Item]:
         return
     stream, label, stem, suffix_format = _opened(source, fmt)
     owned = stream is not sys.stdin and isinstance(source, (str, os.PathLike))
+    path = Path(label) if owned else None
     try:
-        lines = _checked_lines(stream, label)
+        lines = _checked_lines(stream, label, path)
         chosen = fmt or suffix_format
         if chosen is None:
             chosen, lines = _sniff(lines)

@@ -348,3 +348,20 @@ def test_large_graph6_file_streams_in_small_memory(tmp_path):
         tracemalloc.stop()
     # The file is 2 MB; decoding 1000 of its lines must not have pulled it all in.
     assert peak < 1_000_000
+
+
+def test_byte_order_mark_and_windows_line_ends(tmp_path):
+    path = tmp_path / "excel.csv"
+    path.write_bytes("\ufeffnorth,south\r\nsouth,east,2\r\n".encode())
+    G = read_graph(path)
+    assert list(G) == ["north", "south", "east"]
+    assert G["south"]["east"]["weight"] == 2
+
+
+def test_undecodable_bytes_name_the_line(tmp_path):
+    path = tmp_path / "latin.txt"
+    path.write_bytes(b"a b\n" * 5000 + b"\xe9t\xe9 c\n")
+    with pytest.raises(
+        GraphFormatError, match=r"latin\.txt, line 5001: the bytes b'\\xe9' are not UTF-8"
+    ):
+        read_graph(path)
