@@ -395,10 +395,12 @@ class _Collection:
 
 
 def _cokernel(rows: list[list[int]]) -> tuple[tuple[int, ...], int]:
-    from graphinv.normalform import cokernel
+    """Invariant factors (> 1) and free rank of the cokernel of a square integer matrix."""
+    from graphinv.normalform import smith_diagonal
 
-    result = cokernel(rows)
-    return tuple(int(d) for d in result.invariant_factors if d != 1), int(result.free_rank)
+    diagonal = smith_diagonal(rows)
+    factors = tuple(sorted(int(abs(d)) for d in diagonal if d not in (0, 1, -1)))
+    return factors, sum(1 for d in diagonal if d == 0)
 
 
 def _invariant(name: str, n: int, edges: Sequence[tuple[int, int, int]]) -> Hashable:
