@@ -34,5 +34,11 @@ bench: $(STAMP)
 figures: $(STAMP)
 	$(VENV)/bin/graphinv figures --out figures
 
+# the identity recurrent configuration of the n x n grid wired to a sink, as a picture
+IDENTITY_N ?= 100
+.PHONY: figure-identity
+figure-identity: $(STAMP)
+	$(VENV)/bin/graphinv chips grid-identity $(IDENTITY_N) --png figures/identity_grid_$(IDENTITY_N).png
+
 clean:
 	rm -rf $(VENV) out build *.egg-info

@@ -33,7 +33,12 @@ import networkx as nx
 import numpy as np
 
 from graphinv._graphs import as_multiplicity, require_nonempty, weighted_edges
-from graphinv.errors import DisconnectedGraphError, GraphInvError, InvalidGraphError
+from graphinv.errors import (
+    DisconnectedGraphError,
+    GraphFormatError,
+    GraphInvError,
+    InvalidGraphError,
+)
 
 if TYPE_CHECKING:
     import scipy.sparse
@@ -43,6 +48,8 @@ __all__ = [
     "Configuration",
     "ConfigurationError",
     "chip_graph",
+    "parse_configuration",
+    "vertex_by_name",
 ]
 
 #: Entries of int64 chip vectors stay below this, so a few sums of them cannot overflow.
@@ -487,3 +494,122 @@ class Configuration:
             "chips": {str(_label(v)): int(n) for v, n in self.to_dict().items()},
             "total": self.total,
         }
+
+
+def _integer(value: Any) -> int | None:
+    """``value`` as an int if it is one (an int, an integral float, or decimal text), else None."""
+    if isinstance(value, bool):
+        return None
+    if isinstance(value, int):
+        return value
+    if isinstance(value, float):
+        return int(value) if value.is_integer() else None
+    try:
+        return int(str(value))
+    except ValueError:
+        return None
+
+
+def vertex_by_name(G: nx.Graph, name: str) -> Hashable:
+    """The vertex of ``G`` whose ``str()`` is ``name`` (how vertices are typed on a command line).
+
+    Raises
+    ------
+    ConfigurationError
+        No vertex, or more than one, prints as ``name``.
+
+    Examples
+    --------
+    >>> vertex_by_name(nx.path_graph(3), "2")
+    2
+    >>> vertex_by_name(nx.Graph([((0, 1), "sink")]), "(0, 1)")
+    (0, 1)
+    """
+    matches = [v for v in G if str(v) == name]
+    if len(matches) == 1:
+        return matches[0]
+    if not matches:
+        raise ConfigurationError(f"unknown vertex {name!r}: not in the graph")
+    raise ConfigurationError(f"vertex name {name!r} is ambiguous: {len(matches)} vertices print so")
+
+
+def parse_configuration(
+    text: str, graph: ChipGraph, *, source: str = "<string>", nonnegative: bool = True
+) -> Configuration:
+    """Read a configuration: one ``VERTEX COUNT`` (or ``VERTEX=COUNT``) pair per line, or JSON.
+
+    Blank lines and lines starting with ``#`` are skipped; a vertex may appear more than once
+    (counts add up).  Text starting with ``{`` is read as a JSON object ``{"vertex": count}``.
+    Vertex names are matched against ``str(vertex)``.
+
+    Parameters
+    ----------
+    text : str
+    graph : ChipGraph
+    source : str, optional
+        File name for error messages.
+    nonnegative : bool, optional
+        Reject negative counts (default).
+
+    Raises
+    ------
+    GraphFormatError
+        A malformed line, an unknown vertex, the sink, or a negative count (with file and line).
+
+    Examples
+    --------
+    >>> cg = chip_graph(nx.path_graph(4), sink=0)
+    >>> parse_configuration("# demo\\n1 2\\n3=5\\n1 1\\n", cg).to_dict()
+    {1: 3, 2: 0, 3: 5}
+    >>> parse_configuration("2 -1", cg, source="chips.txt")
+    Traceback (most recent call last):
+    ...
+    graphinv.errors.GraphFormatError: chips.txt, line 1: negative chip count -1 for vertex '2'
+    """
+    import json
+
+    G = graph.graph
+    stripped = text.lstrip()
+    pairs: list[tuple[int | None, str, Any]] = []
+    if stripped.startswith("{"):
+        try:
+            data = json.loads(text)
+        except json.JSONDecodeError as exc:
+            raise GraphFormatError(
+                f"not valid JSON: {exc.msg}", source=source, line=exc.lineno
+            ) from None
+        if not isinstance(data, dict):
+            raise GraphFormatError("expected a JSON object {vertex: count}", source=source)
+        pairs = [(None, str(k), v) for k, v in data.items()]
+    else:
+        for number, raw in enumerate(text.splitlines(), start=1):
+            line = raw.split("#", 1)[0].strip()
+            if not line:
+                continue
+            parts = line.replace("=", " ").split()
+            if len(parts) != 2:
+                raise GraphFormatError(
+                    f"expected 'VERTEX COUNT', not {raw.strip()!r}", source=source, line=number
+                )
+            pairs.append((number, parts[0], parts[1]))
+    totals: dict[Hashable, int] = {}
+    for where, name, raw_count in pairs:
+        count = _integer(raw_count)
+        if count is None:
+            raise GraphFormatError(
+                f"chip count must be an integer, not {raw_count!r}", source=source, line=where
+            )
+        if nonnegative and count < 0:
+            raise GraphFormatError(
+                f"negative chip count {count} for vertex {name!r}", source=source, line=where
+            )
+        try:
+            vertex = vertex_by_name(G, name)
+        except ConfigurationError as exc:
+            raise GraphFormatError(str(exc), source=source, line=where) from None
+        if vertex == graph.sink:
+            raise GraphFormatError(
+                f"vertex {name!r} is the sink; the sink holds no chips", source=source, line=where
+            )
+        totals[vertex] = totals.get(vertex, 0) + count
+    return Configuration.from_dict(graph, totals)

@@ -6,6 +6,7 @@ Each topic module registers its commands on the one typer app; run ``graphinv --
 from __future__ import annotations
 
 from graphinv.cli import batch as _batch  # noqa: F401  (registers commands)
+from graphinv.cli import chips as _chips  # noqa: F401  (registers commands)
 from graphinv.cli import info as _info  # noqa: F401  (registers commands)
 from graphinv.cli import load as _load  # noqa: F401  (registers commands)
 from graphinv.cli import report as _report  # noqa: F401  (registers commands)
