@@ -88,19 +88,13 @@ def _decode_size(data: bytes, what: str) -> tuple[int, int]:
         raise GraphFormatError(f"malformed {what}: empty text; expected the vertex count")
     if data[0] != 126:
         return data[0] - _BIAS, 1
-    if len(data) >= 2 and data[1] == 126:
-        if len(data) < 8:
-            raise GraphFormatError(f"malformed {what}: the vertex count is cut short")
-        n = 0
-        for byte in data[2:8]:
-            n = (n << 6) | (byte - _BIAS)
-        return n, 8
-    if len(data) < 4:
+    start, end = (2, 8) if len(data) >= 2 and data[1] == 126 else (1, 4)
+    if len(data) < end:
         raise GraphFormatError(f"malformed {what}: the vertex count is cut short")
     n = 0
-    for byte in data[1:4]:
+    for byte in data[start:end]:
         n = (n << 6) | (byte - _BIAS)
-    return n, 4
+    return n, end
 
 
 def _encode_size(n: int) -> bytes:

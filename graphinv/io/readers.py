@@ -283,17 +283,33 @@ def _opened(source: GraphSourceLike, format: str | None) -> tuple[IO[str], str, 
     return stream, text, _stem(path), infer_format(path)
 
 
-def _items(source: GraphSourceLike, format: str | None) -> Iterator[_Item]:
-    fmt = _check_format(format)
-    if (
+def _is_family_source(source: GraphSourceLike) -> bool:
+    return (
         isinstance(source, str)
         and source != "-"
-        and not Path(source).exists()
         and is_family_spec(source)
-    ):
-        for index, G in enumerate(family_graphs(source)):
-            yield _Item(index, None, G.graph["name"], G, None)
-        return
+        and not Path(source).exists()
+    )
+
+
+def _items(source: GraphSourceLike, format: str | None) -> Iterator[_Item]:
+    """Check the source now (format, file, family name), then read it lazily."""
+    fmt = _check_format(format)
+    if _is_family_source(source):
+        assert isinstance(source, str)
+        count_family_graphs(source)  # an unknown family or malformed spec fails here
+        return _family_items(source)
+    if isinstance(source, (str, os.PathLike)) and os.fspath(source) != "-":
+        _opened(source, fmt)[0].close()  # a missing file or a directory fails here
+    return _file_items(source, fmt)
+
+
+def _family_items(spec: str) -> Iterator[_Item]:
+    for index, G in enumerate(family_graphs(spec)):
+        yield _Item(index, None, G.graph["name"], G, None)
+
+
+def _file_items(source: GraphSourceLike, fmt: str | None) -> Iterator[_Item]:
     stream, label, stem, suffix_format = _opened(source, fmt)
     owned = stream is not sys.stdin and isinstance(source, (str, os.PathLike))
     path = Path(label) if owned else None
@@ -460,7 +476,11 @@ def read_graphs(source: GraphSourceLike, *, format: str | None = None) -> Iterat
     ----------
     B. D. McKay, formats.txt (graph6 and sparse6).
     """
-    for item in _items(source, format):
+    return _graphs(_items(source, format))
+
+
+def _graphs(items: Iterator[_Item]) -> Iterator[nx.Graph]:
+    for item in items:
         if item.error is not None:
             raise item.error
         assert item.graph is not None
@@ -487,19 +507,19 @@ def iter_records(source: GraphSourceLike, *, format: str | None = None) -> Itera
     ----------
     B. D. McKay, formats.txt (graph6 and sparse6).
     """
-    for item in _items(source, format):
-        yield GraphRecord(
-            item.index,
-            item.line,
-            item.name,
-            item.graph,
-            None if item.error is None else str(item.error),
-        )
+    return _records(_items(source, format))
+
+
+def _records(items: Iterator[_Item]) -> Iterator[GraphRecord]:
+    for item in items:
+        error = None if item.error is None else str(item.error)
+        yield GraphRecord(item.index, item.line, item.name, item.graph, error)
 
 
 def _count_graphs(source: GraphSourceLike, format: str | None, rest: Iterator[_Item]) -> int:
     """How many graphs the source holds, counting lines rather than decoding where possible."""
-    if isinstance(source, str) and not Path(source).exists() and is_family_spec(source):
+    if _is_family_source(source):
+        assert isinstance(source, str)
         return count_family_graphs(source)
     if isinstance(source, (str, os.PathLike)) and os.fspath(source) != "-":
         stream, label, _, suffix_format = _opened(source, format)

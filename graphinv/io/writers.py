@@ -5,7 +5,7 @@ from __future__ import annotations
 import contextlib
 import os
 import sys
-from collections.abc import Iterable, Iterator
+from collections.abc import Callable, Iterable, Iterator
 from pathlib import Path
 from typing import IO
 
@@ -33,8 +33,18 @@ def _target_stream(target: str | os.PathLike[str] | IO[str]) -> Iterator[IO[str]
         yield target
 
 
-def _as_iterable(graphs: nx.Graph | Iterable[nx.Graph]) -> Iterable[nx.Graph]:
-    return [graphs] if isinstance(graphs, nx.Graph) else graphs
+def _write_lines(
+    graphs: nx.Graph | Iterable[nx.Graph],
+    target: str | os.PathLike[str] | IO[str],
+    encode: Callable[[nx.Graph], str],
+) -> int:
+    """Write one encoded graph per line, as the graphs come; return how many."""
+    count = 0
+    with _target_stream(target) as stream:
+        for G in [graphs] if isinstance(graphs, nx.Graph) else graphs:
+            stream.write(encode(G) + "\n")
+            count += 1
+    return count
 
 
 def write_graph6(
@@ -64,12 +74,7 @@ def write_graph6(
     ----------
     B. D. McKay, formats.txt (graph6).
     """
-    count = 0
-    with _target_stream(target) as stream:
-        for G in _as_iterable(graphs):
-            stream.write(to_graph6(G) + "\n")
-            count += 1
-    return count
+    return _write_lines(graphs, target, to_graph6)
 
 
 def write_sparse6(
@@ -90,12 +95,7 @@ def write_sparse6(
     ----------
     B. D. McKay, formats.txt (sparse6).
     """
-    count = 0
-    with _target_stream(target) as stream:
-        for G in _as_iterable(graphs):
-            stream.write(to_sparse6(G) + "\n")
-            count += 1
-    return count
+    return _write_lines(graphs, target, to_sparse6)
 
 
 def convert_graphs(

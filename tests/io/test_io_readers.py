@@ -365,3 +365,28 @@ def test_undecodable_bytes_name_the_line(tmp_path):
         GraphFormatError, match=r"latin\.txt, line 5001: the bytes b'\\xe9' are not UTF-8"
     ):
         read_graph(path)
+
+
+def test_directed_graphml_is_read_undirected_with_a_warning(tmp_path):
+    D = nx.DiGraph([("a", "b"), ("b", "a"), ("b", "c")])
+    nx.write_graphml(D, tmp_path / "d.graphml")
+    with pytest.warns(UserWarning, match=r"d\.graphml: directed graph read as undirected"):
+        G = read_graph(tmp_path / "d.graphml")
+    # the antiparallel pair a->b, b->a is one undirected edge, not a double edge
+    assert sorted(G.edges(data="weight")) == [("a", "b", 1), ("b", "c", 1)]
+
+
+def test_integer_labels_in_graphml_become_ints(tmp_path):
+    nx.write_graphml(nx.path_graph(3), tmp_path / "p.graphml")
+    assert sorted(read_graph(tmp_path / "p.graphml")) == [0, 1, 2]
+
+
+def test_source_problems_are_reported_before_iteration(tmp_path):
+    with pytest.raises(GraphFormatError, match="no such file"):
+        read_graphs(tmp_path / "absent.txt")
+    with pytest.raises(GraphFormatError, match="is a directory"):
+        iter_records(tmp_path)
+    with pytest.raises(GraphFormatError, match="unknown graph family"):
+        read_graphs("blob:4")
+    with pytest.raises(GraphFormatError, match="unknown format"):
+        read_graphs("cycle:4", format="dot")
