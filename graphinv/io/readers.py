@@ -46,7 +46,12 @@ from graphinv._graphs import as_multiplicity
 from graphinv.errors import GraphFormatError, InvalidWeightError
 from graphinv.io.adjacency import parse_adjacency_matrix
 from graphinv.io.edgelist import parse_edgelist, parse_label
-from graphinv.io.families import count_family_graphs, family_graphs, is_family_spec
+from graphinv.io.families import (
+    count_family_graphs,
+    family_graphs,
+    family_names,
+    is_family_spec,
+)
 from graphinv.io.graph6 import (
     GRAPH6_HEADER,
     SPARSE6_HEADER,
@@ -284,12 +289,17 @@ def _opened(source: GraphSourceLike, format: str | None) -> tuple[IO[str], str, 
 
 
 def _is_family_source(source: GraphSourceLike) -> bool:
-    return (
-        isinstance(source, str)
-        and source != "-"
-        and is_family_spec(source)
-        and not Path(source).exists()
-    )
+    """A string that is no file and reads as ``name:params``.
+
+    A missing ``data/run:3.txt`` is a missing file, not an unknown family: a name that is no
+    family and text that looks like a path are left to the file checks.
+    """
+    if not isinstance(source, str) or source == "-" or not is_family_spec(source):
+        return False
+    if Path(source).exists():
+        return False
+    name = source.strip().split(":", 1)[0].lower()
+    return name in family_names() or not ("/" in source or infer_format(source) is not None)
 
 
 def _items(source: GraphSourceLike, format: str | None) -> Iterator[_Item]:

@@ -299,6 +299,8 @@ def test_family_spec_as_source_and_missing_file():
         read_graph("graphs/not-there.txt")
     with pytest.raises(GraphFormatError, match="unknown graph family in 'blob:3'"):
         read_graph("blob:3")
+    with pytest.raises(GraphFormatError, match=r"^runs:2024\.g6: no such file"):
+        read_graph("runs:2024.g6")
 
 
 # --- streaming --------------------------------------------------------------------------------
