@@ -9,6 +9,8 @@ import networkx as nx
 import numpy as np
 import pytest
 import sympy
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
 from graphinv.errors import InvalidGraphError
 from graphinv.spectrum import (
@@ -281,3 +283,41 @@ def test_cli_spectrum_rejects_a_bad_matrix(cli_runner):
     result = cli_runner.invoke(app, ["spectrum", "cycle:5", "--matrix", "normal"])
     assert result.exit_code == 2
     assert "Argument 'matrix' must be one of" in result.output
+
+
+# --- properties ------------------------------------------------------------------------------
+
+@st.composite
+def _small_graphs(draw):
+    n = draw(st.integers(min_value=1, max_value=7))
+    pairs = [(i, j) for i in range(n) for j in range(i + 1, n)]
+    chosen = draw(st.lists(st.sampled_from(pairs), unique=True) if pairs else st.just([]))
+    G = nx.empty_graph(n)
+    G.add_edges_from(chosen)
+    return G
+
+
+@settings(max_examples=40, deadline=None, derandomize=True)
+@given(_small_graphs(), _small_graphs(), st.sampled_from(KINDS))
+def test_disjoint_union_multiplies_polynomials(G, H, kind):
+    # The matrices of G + H are block diagonal, so the characteristic polynomials multiply
+    # (common fact; Brouwer & Haemers 2012, §1.3); sympy does the multiplication.
+    x = sympy.Symbol("x")
+    product = sympy.Poly(list(characteristic_polynomial(G, kind)), x) * sympy.Poly(
+        list(characteristic_polynomial(H, kind)), x
+    )
+    union = characteristic_polynomial(nx.disjoint_union(G, H), kind)
+    assert union == tuple(int(c) for c in product.all_coeffs())
+
+
+@settings(max_examples=40, deadline=None, derandomize=True)
+@given(_small_graphs())
+def test_laplacian_polynomial_counts_trees(G):
+    # Kirchhoff (1847): the coefficient of x in det(xI - L) is (-1)^(n-1) n tau(G);
+    # networkx's number_of_spanning_trees is the reference.
+    n = G.number_of_nodes()
+    polynomial = characteristic_polynomial(G)
+    trees = round(nx.number_of_spanning_trees(G)) if n > 1 else 1
+    if n > 1 and not nx.is_connected(G):
+        trees = 0
+    assert polynomial[-2] == (-1) ** (n - 1) * n * trees
