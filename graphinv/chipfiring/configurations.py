@@ -129,6 +129,8 @@ class ChipGraph:
     laplacian: scipy.sparse.csr_array
     directed: bool
     index: dict[Hashable, int] = field(repr=False)
+    cache: dict[str, Any] = field(default_factory=dict, repr=False, compare=False)
+    """Derived data computed once per chip graph (factorizations, identity, group)."""
 
     def __len__(self) -> int:
         return len(self.vertices)

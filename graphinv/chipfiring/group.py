@@ -20,7 +20,6 @@ of an integer matrix", SIAM J. Comput. 8 (1979).
 
 from __future__ import annotations
 
-import weakref
 from collections.abc import Hashable, Sequence
 from dataclasses import dataclass
 from typing import Any
@@ -130,9 +129,6 @@ class RecurrentGroup:
         }
 
 
-_GROUPS: weakref.WeakKeyDictionary[ChipGraph, RecurrentGroup] = weakref.WeakKeyDictionary()
-
-
 def recurrent_group(G: nx.Graph | ChipGraph, *, sink: Hashable | None = None) -> RecurrentGroup:
     """The group of recurrents with its explicit invariant-factor coordinates.
 
@@ -159,7 +155,7 @@ def recurrent_group(G: nx.Graph | ChipGraph, *, sink: Hashable | None = None) ->
     Biggs, J. Algebraic Combin. 9 (1999); Kannan, Bachem, SIAM J. Comput. 8 (1979).
     """
     graph = chip_graph(G, sink=sink)
-    cached = _GROUPS.get(graph)
+    cached = graph.cache.get("group")
     if cached is not None:
         return cached
     from graphinv.normalform import smith_form
@@ -168,7 +164,7 @@ def recurrent_group(G: nx.Graph | ChipGraph, *, sink: Hashable | None = None) ->
     identity = Configuration(graph, _identity(graph))
     if n == 0:
         group = RecurrentGroup(graph, (), (), identity, (), ())
-        _GROUPS[graph] = group
+        graph.cache["group"] = group
         return group
     rows = graph.laplacian.toarray().tolist()
     smith = smith_form(rows, transforms=True)
@@ -184,7 +180,7 @@ def recurrent_group(G: nx.Graph | ChipGraph, *, sink: Hashable | None = None) ->
         Configuration(graph, _recurrent_of(graph, as_chip_vector(column))) for column in lift
     )
     group = RecurrentGroup(graph, factors, generators, identity, transform, lift)
-    _GROUPS[graph] = group
+    graph.cache["group"] = group
     return group
 
 

@@ -19,7 +19,6 @@ sandpile group", Discrete Math. 256 (2002).
 from __future__ import annotations
 
 import math
-import weakref
 from collections import deque
 from collections.abc import Hashable, Iterator
 
@@ -61,13 +60,11 @@ def _stable(graph: ChipGraph, chips: np.ndarray) -> np.ndarray:
     return relax(graph, chips)[0]
 
 
-_SCRIPTS: weakref.WeakKeyDictionary[ChipGraph, np.ndarray] = weakref.WeakKeyDictionary()
-
-
 def _script(graph: ChipGraph) -> np.ndarray:
     """Speer's burning script: the least ``sigma >= 1`` with ``L~^T sigma >= 0``."""
-    if graph in _SCRIPTS:
-        return _SCRIPTS[graph]
+    if "script" in graph.cache:
+        cached: np.ndarray = graph.cache["script"]
+        return cached
     n = len(graph)
     sigma = np.ones(n, dtype=np.int64)
     if graph.directed and n:
@@ -80,7 +77,7 @@ def _script(graph: ChipGraph) -> np.ndarray:
             if not short.any():
                 break
             sigma[short] += (-burning[short] + degree[short] - 1) // degree[short]
-    _SCRIPTS[graph] = sigma
+    graph.cache["script"] = sigma
     return sigma
 
 
@@ -291,14 +288,12 @@ def equivalent_superstable(configuration: Configuration) -> Configuration:
     return Configuration(graph, maximal - recurrent)
 
 
-_IDENTITIES: weakref.WeakKeyDictionary[ChipGraph, np.ndarray] = weakref.WeakKeyDictionary()
-
-
 def _identity(graph: ChipGraph) -> np.ndarray:
-    if graph not in _IDENTITIES:
+    if "identity" not in graph.cache:
         twice = 2 * np.asarray(graph.max_stable)
-        _IDENTITIES[graph] = _stable(graph, twice - _stable(graph, twice))
-    return _IDENTITIES[graph]
+        graph.cache["identity"] = _stable(graph, twice - _stable(graph, twice))
+    identity: np.ndarray = graph.cache["identity"]
+    return identity
 
 
 def identity_configuration(

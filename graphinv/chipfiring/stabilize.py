@@ -25,7 +25,6 @@ European J. Combin. 12 (1991).
 from __future__ import annotations
 
 import math
-import weakref
 from dataclasses import dataclass
 from typing import Any
 
@@ -269,7 +268,6 @@ class _Schedule:
 
 _SCHEDULE_VERTICES = 2048
 _SCHEDULE_COLOURS = 8
-_SCHEDULES: weakref.WeakKeyDictionary[ChipGraph, _Schedule | None] = weakref.WeakKeyDictionary()
 
 
 def _greedy_colours(graph: ChipGraph, limit: int) -> np.ndarray | None:
@@ -293,10 +291,11 @@ def _greedy_colours(graph: ChipGraph, limit: int) -> np.ndarray | None:
 def _schedule(graph: ChipGraph) -> _Schedule | None:
     if len(graph) < _SCHEDULE_VERTICES:
         return None
-    if graph not in _SCHEDULES:
+    if "schedule" not in graph.cache:
         colours = _greedy_colours(graph, _SCHEDULE_COLOURS)
-        _SCHEDULES[graph] = None if colours is None else _Schedule(graph, colours)
-    return _SCHEDULES[graph]
+        graph.cache["schedule"] = None if colours is None else _Schedule(graph, colours)
+    schedule: _Schedule | None = graph.cache["schedule"]
+    return schedule
 
 
 def _sweeps_int64(
@@ -379,7 +378,6 @@ class _Solver:
     def __init__(self, graph: ChipGraph) -> None:
         import scipy.sparse.linalg
 
-        self.graph = graph
         self.lu = scipy.sparse.linalg.splu(graph.laplacian.astype(np.float64).tocsc())
         rhs = np.full(len(graph), float(graph.row_weight + 1))
         bound = np.ceil(self.lu.solve(rhs))
@@ -395,16 +393,14 @@ class _Solver:
         return np.asarray(self.lu.solve(rhs))
 
 
-_SOLVERS: weakref.WeakKeyDictionary[ChipGraph, _Solver | None] = weakref.WeakKeyDictionary()
-
-
 def _solver(graph: ChipGraph) -> _Solver | None:
-    if graph not in _SOLVERS:
+    if "solver" not in graph.cache:
         try:
-            _SOLVERS[graph] = _Solver(graph)
+            graph.cache["solver"] = _Solver(graph)
         except (RuntimeError, ValueError, MemoryError):  # singular or too large to factor
-            _SOLVERS[graph] = None
-    return _SOLVERS[graph]
+            graph.cache["solver"] = None
+    solver: _Solver | None = graph.cache["solver"]
+    return solver
 
 
 def certified_lower_solution(graph: ChipGraph, rhs: np.ndarray) -> np.ndarray | None:
