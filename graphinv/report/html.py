@@ -276,7 +276,7 @@ def graph_report(G: nx.Graph, *, name: str | None = None) -> str:
     Examples
     --------
     >>> page = graph_report(nx.petersen_graph(), name="Petersen")
-    >>> "Z/2 ⊕ Z/10 ⊕ Z/10 ⊕ Z/10" in page and "data:image/png;base64," in page
+    >>> "Z/2 ⊕ (Z/10)^3" in page and "data:image/png;base64," in page
     True
 
     References

@@ -16,7 +16,7 @@ from __future__ import annotations
 
 import io
 import math
-from collections.abc import Hashable, Mapping, Sequence
+from collections.abc import Collection, Hashable, Iterable, Mapping, Sequence
 from pathlib import Path
 from typing import TYPE_CHECKING, Any
 
@@ -60,8 +60,11 @@ def _new_figure(width: float, height: float) -> Figure:
     return figure
 
 
-def figure_png(figure: Figure) -> bytes:
+def figure_png(figure: Figure, *, palette: bool = True) -> bytes:
     """The figure as PNG bytes.
+
+    With ``palette`` (the default) the image is reduced to an adaptive 256-colour palette
+    without dithering, which keeps line art and text unchanged to the eye at a third of the size.
 
     Examples
     --------
@@ -70,7 +73,18 @@ def figure_png(figure: Figure) -> bytes:
     """
     buffer = io.BytesIO()
     figure.savefig(buffer, format="png", dpi=_DPI)
-    return buffer.getvalue()
+    if not palette:
+        return buffer.getvalue()
+    from PIL import Image
+
+    buffer.seek(0)
+    with Image.open(buffer) as image:
+        reduced = image.convert("RGB").quantize(
+            colors=256, method=Image.Quantize.MEDIANCUT, dither=Image.Dither.NONE
+        )
+    compact = io.BytesIO()
+    reduced.save(compact, format="PNG", optimize=True)
+    return compact.getvalue()
 
 
 def figure_svg(figure: Figure) -> str:
@@ -305,7 +319,8 @@ def ranking_figure(
     """
     from graphinv.report.summary import scientific
 
-    ordered = sorted(counts.items(), key=lambda item: item[1])
+    # Reversed first, so that among equal counts the one given first ends up on top.
+    ordered = sorted(reversed(list(counts.items())), key=lambda item: item[1])
     figure = _new_figure(7.5, 0.42 * len(ordered) + 1.2)
     axes = figure.subplots()
     lengths = [math.log10(c) if c > 0 else 0.0 for _, c in ordered]
@@ -402,16 +417,20 @@ def _draw(
     labels: bool | None,
     colour_bar: bool,
     scale: tuple[float, float] | None = None,
+    highlight: Collection[frozenset[Hashable]] = frozenset(),
 ) -> None:
     from matplotlib import colormaps
     from matplotlib.collections import LineCollection
 
     segments = []
     widths = []
+    colours = []
     for u, v, m in weighted_edges(G):
         segments.append([where[u], where[v]])
-        widths.append(0.8 + 1.2 * (m - 1))
-    axes.add_collection(LineCollection(segments, linewidths=widths, colors="#777777", zorder=1))
+        marked = frozenset((u, v)) in highlight
+        widths.append(0.8 + 1.2 * (m - 1) + (1.4 if marked else 0.0))
+        colours.append(_LIMIT if marked else "#777777")
+    axes.add_collection(LineCollection(segments, linewidths=widths, colors=colours, zorder=1))
     n = G.number_of_nodes()
     size = max(12.0, min(260.0, 9000.0 / n))
     coloured = [v for v in G if values is not None and v in values]
@@ -545,6 +564,7 @@ def graphs_figure(
     positions: Mapping[Hashable, Sequence[float]] | None = None,
     value_label: str = "value",
     columns: int = 3,
+    highlights: Sequence[Iterable[tuple[Hashable, Hashable]]] | None = None,
 ) -> Figure:
     """Several graphs side by side, sharing one layout and one colour scale.
 
@@ -558,6 +578,8 @@ def graphs_figure(
         The colour-bar label (one bar for all panels).
     columns : int
         Panels per row.
+    highlights : sequence of edge lists, optional
+        Per panel, edges to draw thick and red (e.g. the links two designs do not share).
 
     Examples
     --------
@@ -588,6 +610,7 @@ def graphs_figure(
             labels=None,
             colour_bar=False,
             scale=scale,
+            highlight={frozenset(e) for e in highlights[k]} if highlights else frozenset(),
         )
     for k in range(count, rows * columns):
         grid[k // columns][k % columns].set_axis_off()

@@ -75,16 +75,34 @@ def _digits(value: int, limit: int = FULL_DIGITS_LIMIT) -> str:
 
 
 def format_group(group: CriticalGroup) -> str:
-    """The group as ``Z/d1 ⊕ … ⊕ Z/dr`` (``⊕ Z^f`` for a free part; ``0`` when trivial).
+    """The group as ``Z/d1 ⊕ … ⊕ Z/dr``, a factor repeated k ≥ 3 times as ``(Z/d)^k``.
+
+    ``0`` is the trivial group.  Factors of more than 60 digits are shown in scientific form.
 
     Examples
     --------
     >>> from graphinv import critical_group
     >>> format_group(critical_group(nx.petersen_graph()))
-    'Z/2 ⊕ Z/10 ⊕ Z/10 ⊕ Z/10'
+    'Z/2 ⊕ (Z/10)^3'
+    >>> format_group(critical_group(nx.complete_graph(4)))
+    'Z/4 ⊕ Z/4'
     """
-    parts = [f"Z/{d}" if d.bit_length() < 200 else f"Z/{scientific(d)}" for d in group.invariant_factors]
-    return " ⊕ ".join(parts) if parts else "0"
+    texts = [f"Z/{d}" if d.bit_length() < 200 else f"Z/{scientific(d)}" for d in group.invariant_factors]
+    return " ⊕ ".join(_runs(texts)) if texts else "0"
+
+
+def _runs(texts: Sequence[str]) -> list[str]:
+    """Write a run of k ≥ 3 equal summands ``S`` as ``(S)^k``."""
+    runs: list[list[Any]] = []
+    for text in texts:
+        if runs and runs[-1][0] == text:
+            runs[-1][1] += 1
+        else:
+            runs.append([text, 1])
+    parts: list[str] = []
+    for text, count in runs:
+        parts.extend([text] * count if count < 3 else [f"({text})^{count}"])
+    return parts
 
 
 def format_primary_decomposition(group: CriticalGroup) -> str:
@@ -97,10 +115,10 @@ def format_primary_decomposition(group: CriticalGroup) -> str:
     --------
     >>> from graphinv import critical_group
     >>> format_primary_decomposition(critical_group(nx.petersen_graph()))
-    'Z/2 ⊕ Z/2 ⊕ Z/2 ⊕ Z/2 ⊕ Z/5 ⊕ Z/5 ⊕ Z/5'
+    '(Z/2)^4 ⊕ (Z/5)^3'
     """
     parts, rest = primary_parts(group)
-    text = [f"Z/{q}" for p in sorted(parts) for q in parts[p]]
+    text = _runs([f"Z/{q}" for p in sorted(parts) for q in parts[p]])
     if rest:
         digits = ", ".join(str(len(decimal_string(r))) for r in rest)
         text.append(f"(part of order prime to all p < {_SMALL_PRIME_BOUND}: cyclic factors of {digits} digits)")
