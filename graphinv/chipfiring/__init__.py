@@ -36,6 +36,7 @@ from graphinv.chipfiring.recurrents import (
     recurrent_identity,
     recurrent_negative,
     recurrent_sum,
+    superstable_configurations,
 )
 from graphinv.chipfiring.stabilize import (
     Stabilization,
@@ -69,5 +70,6 @@ __all__ = [
     "recurrent_negative",
     "recurrent_sum",
     "stabilize",
+    "superstable_configurations",
     "wired_grid",
 ]

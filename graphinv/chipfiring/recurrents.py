@@ -53,6 +53,7 @@ __all__ = [
     "recurrent_identity",
     "recurrent_negative",
     "recurrent_sum",
+    "superstable_configurations",
 ]
 
 
@@ -473,6 +474,26 @@ def recurrent_configurations(
                     )
                 seen.add(found)
                 queue.append(found)
+
+
+def superstable_configurations(
+    G: nx.Graph | ChipGraph, *, sink: Hashable | None = None, limit: int = 1_000_000
+) -> Iterator[Configuration]:
+    """Every superstable configuration, as ``c_max - r`` over the recurrents ``r``.
+
+    Examples
+    --------
+    >>> sorted(tuple(c.to_dict().values()) for c in superstable_configurations(nx.cycle_graph(3)))
+    [(0, 0), (0, 1), (1, 0)]
+
+    References
+    ----------
+    Holroyd et al. (2008), Lemma 4.6 (duality).
+    """
+    graph = chip_graph(G, sink=sink)
+    maximal = np.asarray(graph.max_stable)
+    for recurrent in recurrent_configurations(graph, limit=limit):
+        yield Configuration(graph, maximal - recurrent.chips)
 
 
 def _out_lists(graph: ChipGraph) -> list[list[tuple[int, int]]]:

@@ -170,8 +170,10 @@ def relax(
     if current.dtype != object and _small_mass(current):
         start = _head_start(graph, current)
         if start is not None:
-            current = current - graph.laplacian @ start
-            parts.append(start)
+            candidate = current - graph.laplacian @ start
+            if _small_mass(candidate):
+                current = candidate
+                parts.append(start)
         schedule = _schedule(graph)
         if schedule is None:
             final, firings, rounds = _rounds_int64(graph, current, max_rounds)
@@ -210,8 +212,8 @@ def _rounds_int64(
     twice_min = 2 * int(degree.min())
     c = np.array(chips, dtype=np.int64)
     firings: np.ndarray = np.zeros(c.size, dtype=np.int64)
-    # every round adds at most the positive mass to any firing count
-    mass = max(int(np.maximum(c, 0).max()), 1)
+    # no count ever exceeds the positive mass, so a round adds at most that to a firing count
+    mass = max(int(np.maximum(c, 0).sum()), 1)
     rounds = 0
     while True:
         if int(c.max()) < twice_min:
@@ -303,7 +305,7 @@ def _sweeps_int64(
 ) -> tuple[np.ndarray, np.ndarray, int]:
     c = np.array(chips, dtype=np.int64)[schedule.permutation]
     firings: np.ndarray = np.zeros(c.size, dtype=np.int64)
-    mass = max(int(np.maximum(c, 0).max()), 1)
+    mass = max(int(np.maximum(c, 0).sum()), 1)  # bounds every count, see _rounds_int64
     sweeps = 0
     while True:
         active = False
