@@ -28,7 +28,7 @@ from typing import Any
 import networkx as nx
 import numpy as np
 
-from graphinv._graphs import weighted_edges
+from graphinv._graphs import as_multiplicity, weighted_edges
 from graphinv.errors import InvalidGraphError
 from graphinv.spectrum import (
     MATRIX_KINDS,
@@ -85,7 +85,17 @@ def _check_graph(G: Any, position: int | None = None) -> nx.Graph:
 
 def _integer_edges(G: nx.Graph) -> tuple[int, list[tuple[int, int, int]]]:
     index = {v: i for i, v in enumerate(G)}
-    return len(index), [(index[u], index[v], m) for u, v, m in weighted_edges(G)]
+    if G.is_multigraph():
+        return len(index), [(index[u], index[v], m) for u, v, m in weighted_edges(G)]
+    # Fast path for simple graphs (collections of many small graphs): plain positive int
+    # weights are taken as they are, anything else goes through the full check.
+    edges = []
+    for u, v, weight in G.edges(data="weight", default=1):
+        if u == v:
+            continue
+        m = weight if type(weight) is int and weight > 0 else as_multiplicity(weight, edge=(u, v))
+        edges.append((index[u], index[v], m))
+    return len(index), edges
 
 
 def _adjacency_array(n: int, edges: Sequence[tuple[int, int, int]]) -> np.ndarray:
@@ -133,8 +143,13 @@ def _polynomials(
     result: list[tuple[int, ...]] = [()] * len(structures)
     for n, positions in by_order.items():
         stack = np.zeros((len(positions), n, n), dtype=np.int64)
-        for slot, k in enumerate(positions):
-            stack[slot] = _adjacency_array(n, structures[k][1])
+        entries = [
+            (slot, i, j, m) for slot, k in enumerate(positions) for i, j, m in structures[k][1]
+        ]
+        if entries:
+            slots, rows, columns, values = np.array(entries, dtype=np.int64).T
+            np.add.at(stack, (slots, rows, columns), values)
+            np.add.at(stack, (slots, columns, rows), values)
         for k, polynomial in zip(
             positions, characteristic_polynomials(_matrix_stack(stack, matrix)), strict=True
         ):
