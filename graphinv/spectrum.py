@@ -194,11 +194,11 @@ def characteristic_polynomials(stack: np.ndarray | Sequence[Any]) -> list[tuple[
     """Exact characteristic polynomials of many square integer matrices of one size at once.
 
     Runs the Faddeev–LeVerrier recurrence ``M_k = M M_{k-1} + c_{k-1} I``,
-    ``c_k = -tr(M M_k) / k`` on the whole stack with NumPy ``float64`` arithmetic.  Before each
-    product it checks, matrix by matrix, that ``n * max|M| * max|M_{k-1}|`` and every
-    coefficient stay below ``2**53``; below that bound every product, sum and (exact) division
-    is computed without rounding, so the result is the exact integer polynomial.  Matrices that
-    fail the bound are redone with python-flint.
+    ``c_k = -tr(M M_k) / k`` on the whole stack with NumPy ``float64`` arithmetic.  After each
+    step it checks, matrix by matrix, that ``n**2 * max|M| * max|M_k| < 2**53``: that bounds
+    every partial sum of the trace and of the next product, so below it every product, sum and
+    (exact) division is computed without rounding and the result is the exact integer
+    polynomial.  Matrices that fail the bound are redone with python-flint.
 
     Parameters
     ----------
@@ -244,11 +244,13 @@ def characteristic_polynomials(stack: np.ndarray | Sequence[Any]) -> list[tuple[
         # M_k = M @ M_{k-1} + c_{k-1} I, then c_k = -tr(M @ M_k) / k
         power = M @ power
         power[:, diagonal, diagonal] += coefficients[:, k - 1, None]
+        # The trace sums n^2 products and the next step's product sums n; with every partial
+        # sum below 2**53 in absolute value nothing is rounded (a rounded P_k would show a
+        # maximum of at least 2**53 here, since rounding is monotone).
         power_max = np.abs(power).max(axis=(1, 2))
-        exact &= row_max * power_max * n < _EXACT_FLOAT
+        exact &= row_max * power_max * (n * n) < _EXACT_FLOAT
         trace = np.einsum("kij,kji->k", M, power)
         coefficients[:, k] = -trace / k
-        exact &= np.abs(coefficients[:, k]) < _EXACT_FLOAT
     coefficients[~exact] = 0.0  # redone exactly below; keeps the cast free of overflow
     result: list[tuple[int, ...]] = [tuple(row) for row in coefficients.astype(np.int64).tolist()]
     for index in np.flatnonzero(~exact).tolist():
