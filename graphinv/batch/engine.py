@@ -4,8 +4,8 @@ The coordinating process reads the inputs as a stream, cuts them into chunks, as
 which positions of each chunk are already finished, and sends only the rest to the workers —
 a local process pool, the calling process itself (one worker), or a Dask cluster
 (:mod:`graphinv.batch.distributed`).  Workers parse and compute
-(:func:`graphinv.batch.invariants.process_chunk`) and return rows; the coordinator commits each
-chunk in one transaction.  At most a few chunks per worker are in flight, so memory stays flat
+(:func:`graphinv.batch.invariants.process_chunk`) and return rows; the coordinator commits
+finished chunks together, in one transaction about once a second.  At most a few chunks per worker are in flight, so memory stays flat
 whatever the input size.
 
 An interrupted batch (Ctrl-C, ``kill -9``, power loss) keeps every committed chunk; running the
@@ -37,6 +37,11 @@ from graphinv.errors import GraphInvError, StoreError
 __all__ = ["BatchResult", "ChunkExecutor", "LocalExecutor", "run_batch"]
 
 ENGINES = ("local", "dask")
+
+#: Commit finished rows at least this often (seconds) ...
+COMMIT_SECONDS = 1.0
+#: ... or once this many rows are waiting.
+COMMIT_ROWS = 20000
 
 
 @dataclass(frozen=True)
@@ -185,7 +190,7 @@ def _chunks(
                 if seen is None:
                     pending.append(item)
                     continue
-                if seen[0] != item[2][:1000]:
+                if seen[0] != item[2]:
                     raise StoreError(
                         f"{store.path}: input {source.display} has changed since it was stored: "
                         f"graph {item[0]} was {seen[0]!r}, now {item[2]!r}; use a new store"
@@ -372,33 +377,54 @@ def _drive(
 ) -> None:
     limit = 2 * executor.workers + 2
     pending: dict[Any, int] = {}
+    # Finished chunks wait here until a commit: one transaction (and one fsync) per second or
+    # per COMMIT_ROWS rows, instead of one per chunk.  Rows not yet committed are simply
+    # computed again by a rerun.
+    buffer: list[tuple[int, list[ResultItem]]] = []
+    buffered = 0
+    last_commit = time.monotonic()
+
+    def commit() -> None:
+        nonlocal buffered, last_commit
+        if buffer:
+            db.write_many(run_id, buffer)
+            for _, rows in buffer:
+                counts["computed"] += len(rows)
+                counts["failed"] += sum(1 for row in rows if row[-1] is not None)
+            buffer.clear()
+            buffered = 0
+        last_commit = time.monotonic()
 
     def collect() -> None:
+        nonlocal buffered
         for handle, rows in executor.wait(set(pending)):
-            input_id = pending.pop(handle)
-            db.write(input_id, run_id, rows)
-            failed = sum(1 for row in rows if row[-1] is not None)
-            counts["computed"] += len(rows)
-            counts["failed"] += failed
+            buffer.append((pending.pop(handle), rows))
+            buffered += len(rows)
             bar.advance(len(rows))
+        if buffered >= COMMIT_ROWS or time.monotonic() - last_commit >= COMMIT_SECONDS:
+            commit()
 
     def skip(count: int) -> None:
         counts["skipped"] += count
         bar.advance(count)
 
-    for source, input_id in zip(sources, ids, strict=True):
-        settings = KernelSettings(selected, max_vertices, source.format)
-        kind = "edges" if source.kind == "family" else source.kind
-        for chunk in _chunks(source, db, input_id, settings, chunk_size, retry_errors, skip):
-            while len(pending) >= limit:
+    try:
+        for source, input_id in zip(sources, ids, strict=True):
+            settings = KernelSettings(selected, max_vertices, source.format)
+            kind = "edges" if source.kind == "family" else source.kind
+            for chunk in _chunks(source, db, input_id, settings, chunk_size, retry_errors, skip):
+                while len(pending) >= limit:
+                    collect()
+                pending[executor.submit(chunk, settings, kind)] = input_id
+            while pending:
                 collect()
-            pending[executor.submit(chunk, settings, kind)] = input_id
-        while pending:
-            collect()
-        total = db.connection.execute(
-            "SELECT MAX(position) + 1 FROM graphs WHERE input_id = ?", (input_id,)
-        ).fetchone()[0]
-        db.set_total(input_id, int(total or 0))
+            commit()
+            total = db.connection.execute(
+                "SELECT MAX(position) + 1 FROM graphs WHERE input_id = ?", (input_id,)
+            ).fetchone()[0]
+            db.set_total(input_id, int(total or 0))
+    finally:
+        commit()  # keep what was computed, also when interrupted
 
 
 class _Progress:

@@ -562,7 +562,7 @@ _EMPTY_RESULTS = (None,) * len(RESULT_COLUMNS)
 
 
 def _error_row(position: int, line: int | None, content: str, message: str) -> ResultItem:
-    return (position, line, content[:1000], *_EMPTY_RESULTS, message)
+    return (position, line, content, *_EMPTY_RESULTS, message)
 
 
 def _parse_line(text: str, input_format: str | None) -> tuple[int, list[tuple[int, int]]]:

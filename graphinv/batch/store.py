@@ -339,8 +339,13 @@ class BatchStore:
 
     def write(self, input_id: int, run_id: int, rows: Sequence[ResultItem]) -> None:
         """Store result rows of one input in one transaction (an upsert per row)."""
+        self.write_many(run_id, [(input_id, rows)])
+
+    def write_many(self, run_id: int, batches: Sequence[tuple[int, Sequence[ResultItem]]]) -> None:
+        """Store several ``(input_id, rows)`` batches in one transaction."""
         with self.transaction():
-            self.connection.executemany(_UPSERT, [(input_id, run_id, *row) for row in rows])
+            for input_id, rows in batches:
+                self.connection.executemany(_UPSERT, [(input_id, run_id, *row) for row in rows])
 
     # -- reading -----------------------------------------------------------------------------
 

@@ -2,9 +2,45 @@
 
 from __future__ import annotations
 
+import sqlite3
+
 import networkx as nx
 import pytest
-from batch_helpers import graph6_line
+
+
+def _graph6_line(G: nx.Graph) -> str:
+    """The graph6 text of ``G`` (vertices in ``list(G)`` order), written by networkx."""
+    return nx.to_graph6_bytes(G, nodes=list(G), header=False).decode("ascii").strip()
+
+
+def _stored_rows(path, *, without=("run_id",)) -> list[dict]:
+    """Every graph row of a store as a dict, in input order (columns in ``without`` dropped)."""
+    connection = sqlite3.connect(path)
+    try:
+        cursor = connection.execute(
+            "SELECT inputs.source, graphs.* FROM graphs JOIN inputs USING (input_id) "
+            "ORDER BY graphs.input_id, graphs.position"
+        )
+        names = [d[0] for d in cursor.description]
+        rows = [dict(zip(names, row, strict=True)) for row in cursor]
+    finally:
+        connection.close()
+    for row in rows:
+        for name in (*without, "input_id"):
+            row.pop(name, None)
+    return rows
+
+
+@pytest.fixture(scope="session")
+def graph6_line():
+    """The function giving the graph6 text of a networkx graph."""
+    return _graph6_line
+
+
+@pytest.fixture(scope="session")
+def stored_rows():
+    """The function reading every graph row of a store (see ``_stored_rows``)."""
+    return _stored_rows
 
 
 @pytest.fixture(scope="session")
@@ -14,7 +50,10 @@ def atlas_file(tmp_path_factory):
     Atlas graph 0 has no vertices, so its line gets an error row.
     """
     path = tmp_path_factory.mktemp("atlas") / "atlas.g6"
-    lines = [graph6_line(G) for G in nx.graph_atlas_g()]
+    lines = [
+        nx.to_graph6_bytes(G, nodes=list(G), header=False).decode("ascii").strip()
+        for G in nx.graph_atlas_g()
+    ]
     path.write_text("\n".join(lines) + "\n")
     return path
 

@@ -6,7 +6,6 @@ import io
 import sys
 
 import pytest
-from batch_helpers import stored_rows
 
 from graphinv.batch.engine import run_batch
 from graphinv.batch.export import export_records
@@ -37,7 +36,7 @@ def stdin_stream(monkeypatch):
     monkeypatch.setattr(sys, "stdin", io.StringIO(STREAM))
 
 
-def test_bad_lines_get_error_rows_and_good_lines_are_stored(tmp_path, stdin_stream):
+def test_bad_lines_get_error_rows_and_good_lines_are_stored(tmp_path, stdin_stream, stored_rows):
     store = tmp_path / "bad.db"
     result = run_batch(["-"], store=store, workers=1, progress=False)
     assert (result.computed, result.failed) == (8, 3)
@@ -76,7 +75,7 @@ def test_positions_match_the_loader(tmp_path):
     assert [(r["index"], r["line"]) for r in export_records(tmp_path / "s.db")] == expected
 
 
-def test_vertex_limit_gives_error_rows_and_retry_recomputes(tmp_path):
+def test_vertex_limit_gives_error_rows_and_retry_recomputes(tmp_path, stored_rows):
     store = tmp_path / "limit.db"
     run_batch(["complete:3..7"], store=store, workers=1, max_vertices=5)
     rows = stored_rows(store)
@@ -92,7 +91,7 @@ def test_vertex_limit_gives_error_rows_and_retry_recomputes(tmp_path):
     assert stored_rows(store)[4]["error"] is None
 
 
-def test_distinct_standard_input_streams_need_labels(tmp_path, monkeypatch):
+def test_distinct_standard_input_streams_need_labels(tmp_path, monkeypatch, stored_rows):
     from graphinv.errors import StoreError
 
     store = tmp_path / "stdin.db"

@@ -4,8 +4,6 @@ from __future__ import annotations
 
 import json
 
-from batch_helpers import stored_rows
-
 from graphinv.cli import app
 
 
@@ -57,7 +55,7 @@ def test_errors_are_one_line(cli_runner, tmp_path):
     assert survey.exit_code == 2 and "no such store" in survey.output
 
 
-def test_folder_of_edge_lists(cli_runner, tmp_path):
+def test_folder_of_edge_lists(cli_runner, tmp_path, stored_rows):
     folder = tmp_path / "campus"
     folder.mkdir()
     # an invented campus ring of four buildings, one link doubled (multiplicity 2)

@@ -3,7 +3,6 @@
 from __future__ import annotations
 
 import pytest
-from batch_helpers import stored_rows
 
 from graphinv.batch.engine import run_batch
 
@@ -11,7 +10,7 @@ pytest.importorskip("distributed")
 pytestmark = pytest.mark.dask
 
 
-def test_local_cluster_gives_the_same_rows_as_the_local_pool(tmp_path, atlas_file):
+def test_local_cluster_gives_the_same_rows_as_the_local_pool(tmp_path, atlas_file, stored_rows):
     from graphinv.batch.distributed import DaskExecutor
 
     inputs = [str(atlas_file), "gnp:12,0.4,seed=1..40", "wheel:3..9"]

@@ -9,7 +9,6 @@ import flint
 import networkx as nx
 import pytest
 import sympy
-from batch_helpers import graph6_line, stored_rows
 
 import graphinv
 from graphinv.batch.engine import run_batch
@@ -33,7 +32,7 @@ def ints(text: str) -> list[int]:
     return [int(x) for x in text.split(",")] if text else []
 
 
-def test_atlas_agrees_with_single_graph_api(atlas_store):
+def test_atlas_agrees_with_single_graph_api(atlas_store, stored_rows):
     # networkx's atlas: all 1253 graphs on 0..7 vertices (Read & Wilson, An Atlas of Graphs, 1998)
     atlas = nx.graph_atlas_g()
     rows = stored_rows(atlas_store)
@@ -50,7 +49,7 @@ def test_atlas_agrees_with_single_graph_api(atlas_store):
         assert ints(row["degrees"]) == sorted((d for _, d in G.degree()), reverse=True)
 
 
-def test_atlas_smith_forms_agree_with_python_flint(atlas_store):
+def test_atlas_smith_forms_agree_with_python_flint(atlas_store, stored_rows):
     # python-flint's fmpz_mat.snf is the reference Smith normal form (FLINT, Hart et al.)
     atlas = nx.graph_atlas_g()
     for G, row in zip(atlas[1:], stored_rows(atlas_store)[1:], strict=True):
@@ -62,7 +61,7 @@ def test_atlas_smith_forms_agree_with_python_flint(atlas_store):
             assert ints(row[column]) == [int(snf[i, i]) for i in range(len(matrix))]
 
 
-def test_polynomials_agree_with_sympy_on_a_seeded_sample(atlas_store):
+def test_polynomials_agree_with_sympy_on_a_seeded_sample(atlas_store, stored_rows):
     # sympy's Matrix.charpoly is the reference characteristic polynomial
     atlas = nx.graph_atlas_g()
     rows = stored_rows(atlas_store)
@@ -80,7 +79,7 @@ def test_polynomials_agree_with_sympy_on_a_seeded_sample(atlas_store):
             assert ints(rows[index][column]) == expected
 
 
-def test_atlas_canonical_keys_separate_exactly_the_isomorphism_classes(atlas_store):
+def test_atlas_canonical_keys_separate_exactly_the_isomorphism_classes(atlas_store, stored_rows):
     # The atlas lists each isomorphism class once (Read & Wilson 1998), so all keys differ;
     # a relabelled copy must get the same key (networkx.is_isomorphic as reference).
     rows = stored_rows(atlas_store)[1:]
@@ -116,7 +115,7 @@ def test_cospectral_counts_match_haemers_spence(atlas_store, n, adjacency, lapla
     assert counts == {"adjacency": adjacency, "laplacian": laplacian, "signless": signless}
 
 
-def test_published_critical_groups_and_tree_counts(tmp_path):
+def test_published_critical_groups_and_tree_counts(tmp_path, stored_rows):
     store = tmp_path / "families.db"
     specs = ["complete:3..8", "cycle:3..9", "wheel:3..7", "petersen:5,2", "bipartite:3,3"]
     run_batch(specs, store=store, workers=1, invariants="critical-group,spanning-trees")
@@ -192,7 +191,7 @@ def test_selection_of_invariants():
     assert row.degrees == "2,2,2,2,2" and row.critical_group is None
 
 
-def test_graph6_lines_round_trip_through_the_kernel():
+def test_graph6_lines_round_trip_through_the_kernel(graph6_line):
     G = nx.petersen_graph()
     (row,) = process_chunk([(0, 1, graph6_line(G), None)], KernelSettings())
     assert row[-1] is None and row[6] == "2,10,10,10"

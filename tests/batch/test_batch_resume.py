@@ -12,7 +12,6 @@ import time
 
 import networkx as nx
 import pytest
-from batch_helpers import graph6_line, stored_rows
 
 from graphinv.batch.engine import run_batch
 from graphinv.errors import StoreError
@@ -30,7 +29,7 @@ def _count(store) -> int:
 
 
 @pytest.fixture
-def random_graphs(tmp_path):
+def random_graphs(tmp_path, graph6_line):
     rng = random.Random(2026)
     lines = [
         graph6_line(nx.gnp_random_graph(rng.randrange(7, 10), 0.5, seed=rng.randrange(10**9)))
@@ -41,7 +40,9 @@ def random_graphs(tmp_path):
     return path, len(lines)
 
 
-def test_sigkill_midway_then_rerun_gives_exactly_one_row_per_graph(tmp_path, random_graphs):
+def test_sigkill_midway_then_rerun_gives_exactly_one_row_per_graph(
+    tmp_path, random_graphs, stored_rows
+):
     source, total = random_graphs
     store = tmp_path / "killed.db"
     command = [
@@ -87,7 +88,7 @@ def test_sigkill_midway_then_rerun_gives_exactly_one_row_per_graph(tmp_path, ran
     assert statuses == ["running", "finished"]  # the killed run never got to record its end
 
 
-def test_rerun_of_a_finished_batch_computes_nothing(tmp_path):
+def test_rerun_of_a_finished_batch_computes_nothing(tmp_path, stored_rows):
     store = tmp_path / "again.db"
     first = run_batch(["cycle:3..12"], store=store, workers=1)
     second = run_batch(["cycle:3..12"], store=store, workers=1)
@@ -95,7 +96,7 @@ def test_rerun_of_a_finished_batch_computes_nothing(tmp_path):
     assert len(stored_rows(store)) == 10
 
 
-def test_widening_the_selection_computes_only_missing_columns(tmp_path):
+def test_widening_the_selection_computes_only_missing_columns(tmp_path, stored_rows):
     store = tmp_path / "widen.db"
     run_batch(["complete:3..6"], store=store, workers=1, invariants="spanning-trees")
     assert stored_rows(store)[0]["critical_group"] is None
