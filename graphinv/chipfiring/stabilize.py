@@ -204,6 +204,33 @@ def _small_mass(chips: np.ndarray) -> bool:
     return sum(positive.tolist()) < INT64_SAFE
 
 
+def _fire_vector(chips: np.ndarray, degree: np.ndarray, twice_min: int) -> np.ndarray | None:
+    """How often each vertex fires this round (``floor(c/deg)``, at least 0), or None if stable."""
+    if int(chips.max()) < twice_min:
+        # every count is below twice its degree, so a comparison gives floor(c/deg)
+        unstable = chips >= degree
+        return unstable.astype(np.int64) if unstable.any() else None
+    fire = chips // degree
+    np.maximum(fire, 0, out=fire)
+    return fire if fire.any() else None
+
+
+def _count_round(rounds: int, max_rounds: int, firings: np.ndarray, mass: int) -> np.ndarray:
+    """Enforce the round cap; switch the firing counts to Python ints before they could overflow.
+
+    No count ever exceeds the positive mass (it never grows), so a round adds at most ``mass``
+    to any firing count.
+    """
+    if rounds > max_rounds:
+        raise StabilizationError(
+            f"stabilization did not finish within {max_rounds} rounds; raise max_rounds "
+            "if this graph really needs more"
+        )
+    if firings.dtype != object and (rounds + 1) * mass >= INT64_SAFE:
+        return firings.astype(object)
+    return firings
+
+
 def _rounds_int64(
     graph: ChipGraph, chips: np.ndarray, max_rounds: int
 ) -> tuple[np.ndarray, np.ndarray, int]:
@@ -212,28 +239,11 @@ def _rounds_int64(
     twice_min = 2 * int(degree.min())
     c = np.array(chips, dtype=np.int64)
     firings: np.ndarray = np.zeros(c.size, dtype=np.int64)
-    # no count ever exceeds the positive mass, so a round adds at most that to a firing count
     mass = max(int(np.maximum(c, 0).sum()), 1)
     rounds = 0
-    while True:
-        if int(c.max()) < twice_min:
-            unstable = c >= degree
-            if not unstable.any():
-                break
-            fire = unstable.astype(np.int64)
-        else:
-            fire = c // degree
-            np.maximum(fire, 0, out=fire)
-            if not fire.any():
-                break
+    while (fire := _fire_vector(c, degree, twice_min)) is not None:
         rounds += 1
-        if rounds > max_rounds:
-            raise StabilizationError(
-                f"stabilization did not finish within {max_rounds} rounds; raise max_rounds "
-                "if this graph really needs more"
-            )
-        if firings.dtype != object and (rounds + 1) * mass >= INT64_SAFE:
-            firings = firings.astype(object)
+        firings = _count_round(rounds, max_rounds, firings, mass)
         firings += fire
         c -= laplacian @ fire
     return c, firings, rounds
@@ -305,22 +315,15 @@ def _sweeps_int64(
 ) -> tuple[np.ndarray, np.ndarray, int]:
     c = np.array(chips, dtype=np.int64)[schedule.permutation]
     firings: np.ndarray = np.zeros(c.size, dtype=np.int64)
-    mass = max(int(np.maximum(c, 0).sum()), 1)  # bounds every count, see _rounds_int64
+    mass = max(int(np.maximum(c, 0).sum()), 1)
     sweeps = 0
     while True:
         active = False
         for a, b, block, degree, twice_min in schedule.classes:
             part = c[a:b]
-            if int(part.max()) < twice_min:
-                unstable = part >= degree
-                if not unstable.any():
-                    continue
-                fire = unstable.astype(np.int64)
-            else:
-                fire = part // degree
-                np.maximum(fire, 0, out=fire)
-                if not fire.any():
-                    continue
+            fire = _fire_vector(part, degree, twice_min)
+            if fire is None:
+                continue
             active = True
             firings[a:b] += fire
             part -= degree * fire
@@ -330,13 +333,7 @@ def _sweeps_int64(
         if not active:
             break
         sweeps += 1
-        if sweeps > max_rounds:
-            raise StabilizationError(
-                f"stabilization did not finish within {max_rounds} rounds; raise max_rounds "
-                "if this graph really needs more"
-            )
-        if firings.dtype != object and (sweeps + 1) * mass >= INT64_SAFE:
-            firings = firings.astype(object)
+        firings = _count_round(sweeps, max_rounds, firings, mass)
     return c[schedule.inverse], firings[schedule.inverse], sweeps
 
 
@@ -364,12 +361,7 @@ def _rounds_object(
         if not fire.any():
             break
         rounds += 1
-        if rounds > max_rounds:
-            raise StabilizationError(
-                f"stabilization did not finish within {max_rounds} rounds; raise max_rounds "
-                "if this graph really needs more"
-            )
-        firings = firings + fire
+        firings = _count_round(rounds, max_rounds, firings, 0) + fire
         c = c - _matvec_object(graph, fire)
     return as_chip_vector(c.tolist()), firings, rounds
 
