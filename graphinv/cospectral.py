@@ -116,9 +116,7 @@ def _matrix_stack(adjacency: np.ndarray, matrix: str) -> np.ndarray:
     return diagonal - adjacency if matrix == "laplacian" else diagonal + adjacency
 
 
-def polynomial_keys(
-    graphs: Iterable[nx.Graph], matrix: str = "laplacian"
-) -> list[tuple[int, ...]]:
+def polynomial_keys(graphs: Iterable[nx.Graph], matrix: str = "laplacian") -> list[tuple[int, ...]]:
     """Exact characteristic polynomials of many graphs (highest degree first).
 
     Graphs of equal order are stacked and run through the certified batch routine
@@ -275,14 +273,19 @@ class PolynomialClasses:
     duplicates: tuple[tuple[int, ...], ...]
     polynomials: tuple[Hashable, ...]
 
+    def _repr_html_(self) -> str:
+        rows = "".join(f"<tr><td>{', '.join(map(str, c))}</td></tr>" for c in self.classes)
+        return (
+            f"<table><caption>{len(self.classes)} classes, {len(self.duplicates)} isomorphism "
+            f"classes with duplicates</caption><tr><th>positions</th></tr>{rows}</table>"
+        )
+
     def to_record(self) -> dict[str, Any]:
         """A JSON-ready dict."""
         return {
             "classes": [list(c) for c in self.classes],
             "duplicates": [list(d) for d in self.duplicates],
-            "polynomials": [
-                list(p) if isinstance(p, tuple) else p for p in self.polynomials
-            ],
+            "polynomials": [list(p) if isinstance(p, tuple) else p for p in self.polynomials],
         }
 
 
@@ -529,6 +532,27 @@ class CospectralClass:
     values: dict[str, tuple[Any, ...]] = field(hash=False)
     separated_by: dict[str, bool] = field(hash=False)
 
+    def _repr_html_(self) -> str:
+        head = "".join(f"<th>{html.escape(name.replace('_', ' '))}</th>" for name in self.values)
+        body = "".join(
+            f"<tr><td>#{k}</td>"
+            + "".join(
+                f"<td>{html.escape(_invariant_text(name, column[slot]))}</td>"
+                for name, column in self.values.items()
+            )
+            + "</tr>"
+            for slot, k in enumerate(self.members)
+        )
+        verdict = "".join(
+            f"<td>{'separates' if self.separated_by[name] else 'does not separate'}</td>"
+            for name in self.values
+        )
+        return (
+            f"<table><caption>{html.escape(self.matrix)}-cospectral, "
+            f"det(xI - M) = {html.escape(format_polynomial(self.polynomial))}</caption>"
+            f"<tr><th>graph</th>{head}</tr>{body}<tr><td></td>{verdict}</tr></table>"
+        )
+
     def distinct(self, invariant: str) -> int:
         """How many different values ``invariant`` takes on the members."""
         return len(set(self.values[invariant]))
@@ -701,9 +725,7 @@ def find_cospectral(
                 f"Argument 'invariants' must hold names from {choices}, not {name!r}."
             )
     collection = _Collection(graphs)
-    names = tuple(
-        str(G.graph.get("name") or f"#{k}") for k, G in enumerate(collection.graphs)
-    )
+    names = tuple(str(G.graph.get("name") or f"#{k}") for k, G in enumerate(collection.graphs))
     duplicates: tuple[tuple[int, ...], ...] = ()
     duplicate_positions: set[int] = set()
     all_classes: dict[str, tuple[CospectralClass, ...]] = {}
@@ -716,8 +738,7 @@ def find_cospectral(
         separated = dict.fromkeys(invariants, 0)
         for members, polynomial in zip(found.classes, found.polynomials, strict=True):
             values = {
-                name: tuple(collection.invariant(name, k) for k in members)
-                for name in invariants
+                name: tuple(collection.invariant(name, k) for k in members) for name in invariants
             }
             for name, column in values.items():
                 for value in column:

@@ -370,9 +370,7 @@ class Spectrum:
         }
 
     def _repr_html_(self) -> str:
-        rows = "".join(
-            f"<tr><td>{v:.10g}</td><td>{m}</td></tr>" for v, m in self.groups
-        )
+        rows = "".join(f"<tr><td>{v:.10g}</td><td>{m}</td></tr>" for v, m in self.groups)
         scope = "all eigenvalues" if self.complete else "extreme eigenvalues only"
         return (
             f"<table><caption>{html.escape(self.matrix)} spectrum, {self.vertices} vertices "

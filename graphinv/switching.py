@@ -35,6 +35,7 @@ A. E. Brouwer, W. H. Haemers, *Spectra of Graphs*, Springer, 2012, §14.2.3.
 
 from __future__ import annotations
 
+import html
 from collections.abc import Hashable, Iterable
 from dataclasses import dataclass
 from itertools import combinations
@@ -75,6 +76,14 @@ class SwitchingSet:
     switched: tuple[Hashable, ...]
     matrices: tuple[str, ...]
 
+    def _repr_html_(self) -> str:
+        return (
+            "<table><tr><th>switching set</th><th>switched vertices</th><th>matrices</th></tr>"
+            f"<tr><td>{html.escape(', '.join(map(str, self.vertices)))}</td>"
+            f"<td>{html.escape(', '.join(map(str, self.switched)))}</td>"
+            f"<td>{html.escape(', '.join(self.matrices))}</td></tr></table>"
+        )
+
     def to_record(self) -> dict[str, Any]:
         """A JSON-ready dict (vertex labels as text)."""
         return {
@@ -97,8 +106,7 @@ def _simple_graph(G: Any) -> tuple[list[Hashable], list[int]]:
     for u, v, m in weighted_edges(G):
         if m != 1:
             raise InvalidGraphError(
-                f"Godsil-McKay switching needs a simple graph; edge {(u, v)!r} has "
-                f"multiplicity {m}"
+                f"Godsil-McKay switching needs a simple graph; edge {(u, v)!r} has multiplicity {m}"
             )
         i, j = index[u], index[v]
         masks[i] |= 1 << j

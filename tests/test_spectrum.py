@@ -249,7 +249,7 @@ def test_relabelling_does_not_change_the_polynomial():
 
 def test_grouping_tolerance_is_relative_to_the_spectral_radius():
     # common fact: floating eigensolvers return repeated eigenvalues split by ~1e-15.
-    (value, multiplicity), = group_eigenvalues([1e6, 1e6 + 1e-4], 1e-9)
+    ((value, multiplicity),) = group_eigenvalues([1e6, 1e6 + 1e-4], 1e-9)
     assert multiplicity == 2 and value == pytest.approx(1e6 + 5e-5, rel=1e-15)
     assert group_eigenvalues([0.0, 1e-3], 1e-9) == ((0.0, 1), (1e-3, 1))
 
@@ -299,6 +299,7 @@ def test_cli_spectrum_rejects_a_bad_matrix(cli_runner):
 
 
 # --- properties ------------------------------------------------------------------------------
+
 
 @st.composite
 def _small_graphs(draw):
