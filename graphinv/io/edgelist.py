@@ -140,8 +140,8 @@ def parse_edgelist(lines: Iterable[str], *, source: str = "<string>") -> nx.Grap
     # Filling the adjacency directly (one shared data dict per edge, as networkx does itself)
     # reads large files several times faster than add_edges_from.
     adjacency = G._adj
-    for (u, v), m in weights.items():
-        adjacency[u][v] = adjacency[v][u] = {"weight": m}
+    for (a, b), total in weights.items():
+        adjacency[a][b] = adjacency[b][a] = {"weight": total}
     return G
 
 
