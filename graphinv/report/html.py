@@ -263,10 +263,52 @@ def _drawing(G: nx.Graph, name: str) -> EmbeddedFigure | None:
     if G.number_of_nodes() > 2500:
         return None
     degrees = {v: d for v, d in G.degree(weight="weight")}
+    regular = len(set(degrees.values())) == 1
     return embed_figure(
-        graph_figure(G, values=degrees, value_label="degree (with multiplicity)", title=name),
+        graph_figure(
+            G,
+            values=None if regular else degrees,
+            value_label="degree (with multiplicity)",
+            title=name,
+        ),
         title=f"Drawing of {name}",
-        caption="Vertices coloured by degree; thicker edges carry several parallel links.",
+        caption=("A regular graph of degree " + str(next(iter(degrees.values()))) + "."
+                 if regular else "Vertices coloured by degree.")
+        + " Thicker edges carry several parallel links.",
+    )
+
+
+#: Graphs up to this size get drawings of their identity and group generators as chip
+#: configurations in a graph report.
+CHIP_DRAWING_LIMIT = 200
+
+
+def _chip_section(G: nx.Graph, group: Any) -> Section | None:
+    """The identity and the generators of the group of recurrent configurations, drawn."""
+    from graphinv.chipfiring import group_generators, recurrent_identity
+    from graphinv.report.plots import graphs_figure
+
+    if G.number_of_nodes() > CHIP_DRAWING_LIMIT or not nx.is_connected(G):
+        return None
+    sink = next(iter(G))
+    panels: list[tuple[str, nx.Graph, Any]] = [
+        ("identity", G, dict(recurrent_identity(G, sink)))
+    ]
+    generators = group_generators(G, sink=sink)
+    shown = list(zip(generators, group.invariant_factors, strict=False))[:5]
+    for k, (generator, order) in enumerate(shown, start=1):
+        panels.append((f"generator {k}, order {order}", G, generator.to_dict()))
+    more = len(generators) - len(shown)
+    caption = (
+        f"Sink {sink!s} (hollow). The recurrent configurations form a group isomorphic to the "
+        "critical group (Biggs 1999); the identity comes first, then recurrent configurations "
+        "generating its cyclic factors Z/d1, Z/d2 and so on"
+        + (f" ({more} more generators not drawn)." if more > 0 else ".")
+    )
+    figure = graphs_figure(panels, value_label="chips", columns=3)
+    return Section(
+        "Chip configurations",
+        figures=(embed_figure(figure, title="Identity and group generators", caption=caption),),
     )
 
 
@@ -293,6 +335,9 @@ def graph_report(G: nx.Graph, *, name: str | None = None) -> str:
     drawing = _drawing(G, summary.name)
     if drawing is not None:
         sections.append(Section("Drawing", figures=(drawing,)))
+    chips = _chip_section(G, summary.critical_group)
+    if chips is not None:
+        sections.append(chips)
     sections.append(Section("Record (JSON)", preformatted=(to_json_line(summary),)))
     return render_html(f"graphinv report: {summary.name}", sections)
 

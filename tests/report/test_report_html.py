@@ -55,7 +55,9 @@ def assert_self_contained(page: str) -> _Links:
 def test_graph_report_embeds_its_figure():
     page = graph_report(nx.petersen_graph(), name="Petersen")
     parser = assert_self_contained(page)
-    assert parser.images == page.count('src="data:image/png;base64,') == 1
+    # the drawing, and the identity with the four generators (one per invariant factor)
+    assert parser.images == page.count('src="data:image/png;base64,') == 2
+    assert "Identity and group generators" in page
     assert "Z/2 ⊕ (Z/10)^3" in page  # Petersen: Z2 ⊕ Z10^3 (common fact, memory)
     assert "2000" in page
 

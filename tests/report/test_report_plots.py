@@ -8,6 +8,7 @@ import networkx as nx
 import pytest
 
 from graphinv.errors import InvalidGraphError
+from graphinv.report.chipfiring_figures import grid_identity_figure
 from graphinv.report.growth import fit_growth
 from graphinv.report.plots import (
     figure_png,
@@ -46,6 +47,7 @@ FIGURES = {
     "configuration drawing": lambda: graph_figure(
         nx.petersen_graph(), values={v: v % 4 for v in range(1, 10)}, title="chips"
     ),
+    "identity picture": lambda: grid_identity_figure(8),
     "panels": lambda: graphs_figure(
         [("C6", nx.cycle_graph(6), {v: v for v in range(6)}), ("P6", nx.path_graph(6), None)],
         highlights=[[(0, 5)], []],
