@@ -138,7 +138,7 @@ def parse_edgelist(lines: Iterable[str], *, source: str = "<string>") -> nx.Grap
     G = nx.Graph()
     G.add_nodes_from(vertices)
     # Filling the adjacency directly (one shared data dict per edge, as networkx does itself)
-    # reads large files several times faster than add_edges_from.
+    # is markedly faster than add_edges_from on files of millions of lines.
     adjacency = G._adj
     for (a, b), total in weights.items():
         adjacency[a][b] = adjacency[b][a] = {"weight": total}
