@@ -69,6 +69,7 @@ from graphinv.matrices import (
     reduced_laplacian_matrix,
     signless_laplacian_matrix,
 )
+from graphinv.report import GraphSummary, summarize, write_report
 from graphinv.spectrum import (
     Spectrum,
     algebraic_connectivity,
@@ -92,6 +93,7 @@ __all__ = [
     "GraphFormatError",
     "GraphInvError",
     "GraphRecord",
+    "GraphSummary",
     "InvalidGraphError",
     "InvalidWeightError",
     "LabelledMatrix",
@@ -138,5 +140,7 @@ __all__ = [
     "spanning_trees_from_spectrum",
     "spectral_profile",
     "stabilize",
+    "summarize",
     "wired_grid",
+    "write_report",
 ]
