@@ -366,15 +366,32 @@ def _rounds_object(
     return as_chip_vector(c.tolist()), firings, rounds
 
 
+# A direct factorization is used when its fill-in is surely modest: small graphs, or graphs
+# whose reverse Cuthill-McKee bandwidth keeps n * bandwidth below this.  Others (expanders,
+# random regular graphs) are solved iteratively; the certificate makes any accuracy safe.
+_DIRECT_VERTICES = 3000
+_DIRECT_PROFILE = 40_000_000
+
+
 class _Solver:
-    """A floating-point LU factorization of ``L~^T`` and a certified bound on its inverse."""
+    """Approximate solves with ``L~^T`` and a certified bound ``h`` on its inverse.
+
+    The solves are floating point (a sparse LU factorization, or conjugate gradients / GMRES
+    where factoring could fill in badly); nothing relies on their accuracy, because every use
+    is checked in exact integers.
+    """
 
     def __init__(self, graph: ChipGraph) -> None:
         import scipy.sparse.linalg
 
-        self.lu = scipy.sparse.linalg.splu(graph.laplacian.astype(np.float64).tocsc())
+        self.graph_size = len(graph)
+        self.directed = graph.directed
+        self.matrix = graph.laplacian.astype(np.float64).tocsc()
+        self.lu: Any = None
+        if _direct_is_safe(graph):
+            self.lu = scipy.sparse.linalg.splu(self.matrix)
         rhs = np.full(len(graph), float(graph.row_weight + 1))
-        bound = np.ceil(self.lu.solve(rhs))
+        bound = np.ceil(self.solve(rhs))
         self.green_bound: np.ndarray | None = None
         if np.isfinite(bound).all() and float(bound.max()) < 2.0**52:
             candidate = bound.astype(np.int64)
@@ -384,7 +401,32 @@ class _Solver:
                 self.green_bound = candidate
 
     def solve(self, rhs: np.ndarray) -> np.ndarray:
-        return np.asarray(self.lu.solve(rhs))
+        if self.lu is not None:
+            return np.asarray(self.lu.solve(rhs))
+        import scipy.sparse.linalg
+
+        limit = 20 * int(math.sqrt(self.graph_size)) + 2000
+        if self.directed:
+            solution, _ = scipy.sparse.linalg.gmres(self.matrix, rhs, rtol=1e-13, maxiter=limit)
+        else:
+            solution, _ = scipy.sparse.linalg.cg(self.matrix, rhs, rtol=1e-13, maxiter=limit)
+        return np.asarray(solution)
+
+
+def _direct_is_safe(graph: ChipGraph) -> bool:
+    """Whether an LU factorization of ``L~^T`` has surely modest fill-in."""
+    n = len(graph)
+    if n <= _DIRECT_VERTICES:
+        return True
+    from scipy.sparse.csgraph import reverse_cuthill_mckee
+
+    pattern = graph.laplacian.tocsr()
+    order = reverse_cuthill_mckee(pattern, symmetric_mode=not graph.directed)
+    position = np.empty(n, dtype=np.int64)
+    position[order] = np.arange(n, dtype=np.int64)
+    coo = pattern.tocoo()
+    bandwidth = int(np.abs(position[coo.row] - position[coo.col]).max())
+    return n * bandwidth <= _DIRECT_PROFILE
 
 
 def _solver(graph: ChipGraph) -> _Solver | None:
