@@ -422,3 +422,31 @@ def test_contract_accepts_multigraph_and_positional_sink():
     assert all(isinstance(v, int) for v in identity.values())
     cg = chip_graph(G, sink=0)
     assert is_recurrent(cg.configuration(identity))
+
+
+@pytest.mark.parametrize("mode", ["iterative", "garbage"])
+def test_head_start_is_safe_whatever_the_solver_returns(mode, monkeypatch):
+    # The head start relies only on its exact certificate: an iterative solve, or even a
+    # solve returning noise, must leave the result identical to plain rounds.
+    import importlib
+
+    stabilize_module = importlib.import_module("graphinv.chipfiring.stabilize")
+    monkeypatch.setattr(stabilize_module, "_DIRECT_VERTICES", 10)
+    monkeypatch.setattr(stabilize_module, "_DIRECT_PROFILE", 10)
+    if mode == "garbage":
+        noise = np.random.default_rng(9)
+        monkeypatch.setattr(
+            stabilize_module._Solver,
+            "solve",
+            lambda self, rhs: noise.normal(0.0, 1e4, rhs.shape[0]) + 1e3,
+        )
+    cg = chip_graph(wired_grid(22), sink="sink")
+    chips = np.zeros(len(cg), dtype=np.int64)
+    chips[cg.index[(3, 17)]] = 30_000
+    chips[cg.index[(11, 11)]] = 12_345
+    result = stabilize(Configuration(cg, chips))
+    final, firings, rounds = _rounds_int64(cg, chips, 10**8)
+    assert result.stable.chips.tolist() == final.tolist()
+    assert result.firings.tolist() == firings.tolist()
+    if mode == "iterative":
+        assert result.rounds < rounds / 2  # the certified head start did apply
