@@ -433,14 +433,15 @@ def test_head_start_is_safe_whatever_the_solver_returns(mode, monkeypatch):
     stabilize_module = importlib.import_module("graphinv.chipfiring.stabilize")
     monkeypatch.setattr(stabilize_module, "_DIRECT_VERTICES", 10)
     monkeypatch.setattr(stabilize_module, "_DIRECT_PROFILE", 10)
+    cg = chip_graph(wired_grid(22), sink="sink")
     if mode == "garbage":
+        assert stabilize_module._solver(cg).green_bound is not None  # a true bound on L~^-1
         noise = np.random.default_rng(9)
         monkeypatch.setattr(
             stabilize_module._Solver,
             "solve",
             lambda self, rhs: noise.normal(0.0, 1e4, rhs.shape[0]) + 1e3,
         )
-    cg = chip_graph(wired_grid(22), sink="sink")
     chips = np.zeros(len(cg), dtype=np.int64)
     chips[cg.index[(3, 17)]] = 30_000
     chips[cg.index[(11, 11)]] = 12_345
