@@ -387,8 +387,8 @@ def separation_figure(
     axes.set_xticks(positions, [f"{m}-cospectral" for m in matrices])
     axes.set_ylabel("graphs")
     axes.set_title(title, fontsize=10)
-    axes.legend(fontsize=8, frameon=False)
-    axes.margins(y=0.15)
+    axes.legend(fontsize=8, frameon=False, loc="upper center", ncols=3)
+    axes.margins(y=0.35)
     return figure
 
 
