@@ -876,7 +876,8 @@ def compare_graphs(G: nx.Graph, H: nx.Graph) -> Comparison:
     The invariants, in order (cheap and coarse first): vertex count, edge count (with
     multiplicity), degree sequence, characteristic polynomials of L, Q and A, number of
     spanning trees, critical group, Smith normal forms of A and Q (as cokernels), then
-    isomorphism.
+    isomorphism.  Polynomials and Smith forms are exact and dense, so this is meant for graphs
+    of up to a few hundred vertices.
 
     Parameters
     ----------

@@ -76,6 +76,9 @@ MATRIX_KINDS: tuple[str, ...] = ("laplacian", "signless", "adjacency")
 DENSE_LIMIT = 6000
 #: Floats hold every integer of absolute value below this exactly.
 _EXACT_FLOAT = 2.0**53
+#: Above this order the recurrence (n^4 operations, coefficients soon past 2**53) loses to
+#: python-flint, which :func:`characteristic_polynomials` then uses directly.
+_STACK_LIMIT = 20
 
 
 def check_matrix_kind(matrix: str) -> str:
@@ -198,7 +201,8 @@ def characteristic_polynomials(stack: np.ndarray | Sequence[Any]) -> list[tuple[
     step it checks, matrix by matrix, that ``n**2 * max|M| * max|M_k| < 2**53``: that bounds
     every partial sum of the trace and of the next product, so below it every product, sum and
     (exact) division is computed without rounding and the result is the exact integer
-    polynomial.  Matrices that fail the bound are redone with python-flint.
+    polynomial.  Matrices that fail the bound are redone with python-flint, and stacks of
+    matrices larger than 20 x 20 go to python-flint directly.
 
     Parameters
     ----------
@@ -231,7 +235,7 @@ def characteristic_polynomials(stack: np.ndarray | Sequence[Any]) -> list[tuple[
         return []
     if n == 0:
         return [(1,)] * count
-    if array.dtype == object or not np.issubdtype(array.dtype, np.integer):
+    if n > _STACK_LIMIT or array.dtype == object or not np.issubdtype(array.dtype, np.integer):
         return [charpoly_of_rows(m.tolist()) for m in array]
     M = array.astype(np.float64)
     row_max = np.abs(M).max(axis=(1, 2))
