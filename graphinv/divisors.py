@@ -83,6 +83,10 @@ def divisor_degree(D: Mapping[Hashable, int]) -> int:
     --------
     >>> divisor_degree({0: 2, 1: -1, 2: 0})
     1
+
+    References
+    ----------
+    Baker, Norine, Adv. Math. 215 (2007), §1.
     """
     return sum(int(v) for v in D.values())
 

@@ -71,6 +71,10 @@ def as_chip_vector(values: Iterable[Any]) -> np.ndarray:
     --------
     >>> as_chip_vector([1, 2]).dtype, as_chip_vector([2**70, 0]).dtype
     (dtype('int64'), dtype('O'))
+
+    References
+    ----------
+    NumPy ``int64`` arithmetic is exact below ``2**63``; Python ints are exact always.
     """
     items = []
     for value in values:
@@ -88,7 +92,17 @@ def as_chip_vector(values: Iterable[Any]) -> np.ndarray:
 
 
 def fits_int64(vector: np.ndarray, factor: int = 1) -> bool:
-    """Whether ``factor * |entries|`` stays below :data:`INT64_SAFE`."""
+    """Whether ``factor * |entries|`` stays below :data:`INT64_SAFE`.
+
+    Examples
+    --------
+    >>> fits_int64(np.array([3, -2**40]), 2**20), fits_int64(np.array([3, -2**40]), 2**30)
+    (True, False)
+
+    References
+    ----------
+    NumPy ``int64`` arithmetic is exact below ``2**63``.
+    """
     if vector.size == 0:
         return True
     largest = max(abs(int(vector.max())), abs(int(vector.min())))
@@ -119,6 +133,10 @@ class ChipGraph:
         ``L~^T``: firing the vector ``x`` changes the configuration ``c`` into ``c - L~^T x``.
     directed : bool
         Whether the graph is directed.
+
+    References
+    ----------
+    Holroyd et al. (2008), §2; Biggs, J. Algebraic Combin. 9 (1999).
     """
 
     graph: nx.Graph
@@ -366,6 +384,10 @@ class Configuration:
     ({1: 1, 2: 0}, 1, 1)
     >>> (c + c).to_dict()
     {1: 2, 2: 0}
+
+    References
+    ----------
+    Biggs, J. Algebraic Combin. 9 (1999) (configurations and firing).
     """
 
     graph: ChipGraph
@@ -526,6 +548,10 @@ def vertex_by_name(G: nx.Graph, name: str) -> Hashable:
     2
     >>> vertex_by_name(nx.Graph([((0, 1), "sink")]), "(0, 1)")
     (0, 1)
+
+    References
+    ----------
+    The graph file formats of :mod:`graphinv.io` (vertex names as text).
     """
     matches = [v for v in G if str(v) == name]
     if len(matches) == 1:
@@ -567,6 +593,10 @@ def parse_configuration(
     Traceback (most recent call last):
     ...
     graphinv.errors.GraphFormatError: chips.txt, line 1: negative chip count -1 for vertex '2'
+
+    References
+    ----------
+    The ``VERTEX COUNT`` line format follows the edge-list format of :mod:`graphinv.io`.
     """
     import json
 

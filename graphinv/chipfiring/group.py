@@ -61,6 +61,10 @@ class RecurrentGroup:
         The rows of ``U`` at the non-unit positions: ``coordinates(c) = transform @ c mod d``.
     lift : tuple of tuple of int
         The columns of ``U^{-1}`` at the non-unit positions (chip vectors).
+
+    References
+    ----------
+    Biggs (1999); Kannan, Bachem (1979).
     """
 
     graph: ChipGraph

@@ -70,6 +70,10 @@ class Stabilization:
         ``int64`` or Python ints.
     rounds : int
         Vectorised rounds used (a measure of work, not an invariant).
+
+    References
+    ----------
+    Dhar, Phys. Rev. Lett. 64 (1990) (the firing vector does not depend on the order).
     """
 
     stable: Configuration
@@ -155,6 +159,10 @@ def relax(
     >>> final, firings, rounds = relax(chip_graph(nx.cycle_graph(3), sink=0), np.array([4, 0]))
     >>> final.tolist(), firings.tolist()
     ([1, 0], [2, 1])
+
+    References
+    ----------
+    Dhar (1990); Fey, Levine, Peres, J. Stat. Phys. 138 (2010).
     """
     n = len(graph)
     if n == 0:
@@ -452,6 +460,12 @@ def certified_lower_solution(graph: ChipGraph, rhs: np.ndarray) -> np.ndarray | 
     >>> cg = chip_graph(nx.path_graph(3), sink=0)        # L~^T = [[2, -1], [-1, 1]]
     >>> certified_lower_solution(cg, np.array([0, 3])).tolist()   # exact solution [3, 6]
     [3, 6]
+
+    References
+    ----------
+    Fey, Levine, Peres, J. Stat. Phys. 138 (2010) (least action principle); A. Berman, R. J.
+    Plemmons, *Nonnegative Matrices in the Mathematical Sciences*, SIAM 1994 (the inverse of a
+    nonsingular M-matrix is nonnegative).
     """
     solver = _solver(graph)
     if solver is None or solver.green_bound is None or not fits_int64(rhs):

@@ -39,6 +39,10 @@ def grid_values(chips: Mapping[Hashable, int], rows: int, columns: int) -> list[
     --------
     >>> grid_values({(0, 0): 1, (0, 1): 2, (1, 0): 3, (1, 1): 0}, 2, 2)
     [[1, 2], [3, 0]]
+
+    References
+    ----------
+    Dhar (1990) (the wired square grid).
     """
     return [[int(chips[(r, c)]) for c in range(columns)] for r in range(rows)]
 
@@ -78,6 +82,10 @@ def configuration_grid_figure(
     >>> figure = configuration_grid_figure([[0, 1], [2, 3]], title="demo")
     >>> figure.axes[0].get_title()
     'demo'
+
+    References
+    ----------
+    Creutz, Computers in Physics 5 (1991) (drawing sandpiles cell by cell).
     """
     from matplotlib.backends.backend_agg import FigureCanvasAgg
     from matplotlib.colors import BoundaryNorm, ListedColormap
