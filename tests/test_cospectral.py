@@ -372,3 +372,20 @@ def test_cli_compare_needs_single_graphs(cli_runner, tmp_path):
     two = _write_graph6(tmp_path / "two.g6", [nx.path_graph(3), nx.path_graph(4)])
     result = cli_runner.invoke(app, ["compare", two, two])
     assert result.exit_code == 2 and "error:" in result.output
+
+
+def test_cli_mates_reads_a_folder_of_edge_lists(cli_runner, tmp_path):
+    from graphinv.cli import app
+
+    # K_{1,4} and C_4 + K_1 (Brouwer & Haemers 2012, §1.3.1) as two edge-list files
+    folder = tmp_path / "pair"
+    folder.mkdir()
+    (folder / "star.txt").write_text("0 1\n0 2\n0 3\n0 4\n")
+    (folder / "square.txt").write_text("0 1\n1 2\n2 3\n3 0\n4\n")
+    result = cli_runner.invoke(app, ["mates", str(folder), "-m", "adjacency"])
+    assert result.exit_code == 0, result.output
+    assert "adjacency-cospectral: 2 graphs" in result.output
+    empty = tmp_path / "empty"
+    empty.mkdir()
+    result = cli_runner.invoke(app, ["mates", str(empty)])
+    assert result.exit_code == 2 and "the folder holds no graph files" in result.output

@@ -2,13 +2,17 @@
 
 from __future__ import annotations
 
+from collections.abc import Iterator
+from pathlib import Path
 from typing import TYPE_CHECKING, Annotated
 
 import typer
 
 from graphinv.cli._app import FormatOption, GraphSource, JsonLinesOption, command
+from graphinv.errors import GraphFormatError
 
 if TYPE_CHECKING:
+    import networkx as nx
     from rich.console import Console
     from rich.table import Table
 
@@ -38,6 +42,21 @@ def _table(title: str, *columns: str) -> Table:
     return table
 
 
+def _graphs_of(source: str, input_format: str | None) -> Iterator[nx.Graph]:
+    """The graphs of a file, standard input, family spec, or every file of a folder (sorted)."""
+    from graphinv.io import read_graphs
+
+    folder = Path(source)
+    if source != "-" and folder.is_dir():
+        files = sorted(p for p in folder.iterdir() if p.is_file() and not p.name.startswith("."))
+        if not files:
+            raise GraphFormatError("the folder holds no graph files", source=source)
+        for path in files:
+            yield from read_graphs(str(path), format=input_format)
+    else:
+        yield from read_graphs(source, format=input_format)
+
+
 @command("spectrum")
 def spectrum(
     source: GraphSource,
@@ -46,13 +65,12 @@ def spectrum(
     jsonl: JsonLinesOption = False,
 ) -> None:
     """Exact characteristic polynomial and (float) eigenvalues of each graph of SOURCE."""
-    from graphinv.io import read_graphs
     from graphinv.report.jsonl import to_json_line
     from graphinv.spectrum import check_matrix_kind, format_polynomial, spectral_profile
 
     check_matrix_kind(matrix)
     console = _console()
-    for G in read_graphs(source, format=input_format):
+    for G in _graphs_of(source, input_format):
         profile = spectral_profile(G, matrix=matrix)
         if jsonl:
             typer.echo(to_json_line(profile))
@@ -145,11 +163,10 @@ def mates(
 ) -> None:
     """Cospectral classes across graphs: shared exact polynomials, duplicates, separators."""
     from graphinv.cospectral import SEPARATING_INVARIANTS, find_cospectral, format_group
-    from graphinv.io import read_graphs
     from graphinv.report.jsonl import to_json_line
     from graphinv.spectrum import MATRIX_KINDS
 
-    graphs = [G for source in sources for G in read_graphs(source, format=input_format)]
+    graphs = [G for source in sources for G in _graphs_of(source, input_format)]
     report = find_cospectral(graphs, matrices=matrix or MATRIX_KINDS)
     if jsonl:
         for record in report.records():
@@ -228,14 +245,14 @@ def switch(
     """Cospectral mates by Godsil-McKay switching, written as graph6 lines."""
     import sys
 
-    from graphinv.io import read_graphs, to_graph6
+    from graphinv.io import to_graph6
     from graphinv.report.jsonl import to_json_line
     from graphinv.switching import cospectral_mates
 
     stream = open(output, "w", encoding="utf-8") if output else None  # noqa: SIM115
     try:
         total = 0
-        for G in read_graphs(source, format=input_format):
+        for G in _graphs_of(source, input_format):
             name = str(G.graph.get("name") or "graph")
             found = cospectral_mates(G, matrix=matrix, max_size=max_size)
             total += len(found)
