@@ -76,3 +76,14 @@ def test_bad_input_is_one_line(cli_runner, tmp_path):
     result = cli_runner.invoke(app, ["chips", "stabilize", "cycle:4", "--chips", str(bad)])
     assert result.exit_code == 2
     assert f"{bad}, line 2: chip count must be an integer" in result.output
+
+
+def test_generators_and_recurrents(cli_runner):
+    result = cli_runner.invoke(app, ["chips", "generators", "wheel:4"])
+    # Biggs 1999 (memory): W4 has critical group Z/3 + Z/15
+    assert result.exit_code == 0 and "Z/3 + Z/15; order 45" in result.output
+    result = cli_runner.invoke(app, ["chips", "recurrents", "wheel:4"])
+    # OEIS A004146: the wheel with 4 spokes has 45 spanning trees
+    assert result.exit_code == 0 and len(result.output.splitlines()) == 45
+    result = cli_runner.invoke(app, ["chips", "recurrents", "wheel:4", "--limit", "10"])
+    assert result.exit_code == 2 and "more than 10 recurrent configurations" in result.output

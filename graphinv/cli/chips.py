@@ -1,7 +1,7 @@
 """``graphinv chips ...``: chip-firing on a graph with a sink.
 
-Commands: ``stabilize``, ``identity``, ``is-recurrent``, ``order``, ``coords`` and
-``grid-identity`` (the picture of the identity on the wired grid).  A configuration comes from
+Commands: ``stabilize``, ``identity``, ``is-recurrent``, ``order``, ``coords``, ``generators``,
+``recurrents`` and ``grid-identity`` (the picture of the identity on the wired grid).  A configuration comes from
 ``--chips FILE`` (lines ``VERTEX COUNT`` or a JSON object) and/or repeated ``--drop VERTEX=COUNT``;
 vertices are typed as they print (``3``, ``(0, 1)``, ``sink``).
 """
@@ -242,3 +242,44 @@ def grid_identity_command(
         return
     for row in values:
         typer.echo("".join(str(v) for v in row))
+
+
+@command("generators", on=chips)
+def generators_command(
+    source: GraphSource,
+    sink: SinkOption = None,
+    input_format: FormatOption = None,
+    jsonl: JsonLinesOption = False,
+) -> None:
+    """Invariant factors d1 | ... | dr and one recurrent generator of order d_i for each."""
+    from graphinv.chipfiring import recurrent_group
+
+    group = recurrent_group(_graph(source, input_format, sink))
+    if jsonl:
+        _emit(group.to_record())
+        return
+    factors = " + ".join(f"Z/{d}" for d in group.invariant_factors) or "0 (trivial group)"
+    typer.echo(f"group: {factors}; order {group.order}")
+    for d, generator in zip(group.invariant_factors, group.generators, strict=True):
+        _print_configuration(generator, f"generator of order {d}:")
+
+
+@command("recurrents", on=chips)
+def recurrents_command(
+    source: GraphSource,
+    sink: SinkOption = None,
+    limit: Annotated[
+        int, typer.Option("--limit", help="Refuse groups with more recurrents than this.")
+    ] = 100_000,
+    superstable: Annotated[
+        bool, typer.Option("--superstable", help="List the superstables (c_max - r) instead.")
+    ] = False,
+    input_format: FormatOption = None,
+) -> None:
+    """List every recurrent (or superstable) configuration, one JSON line each."""
+    from graphinv.chipfiring import recurrent_configurations, superstable_configurations
+
+    graph = _graph(source, input_format, sink)
+    listing = superstable_configurations if superstable else recurrent_configurations
+    for configuration in listing(graph, limit=limit):
+        _emit(configuration.to_record())
