@@ -29,7 +29,7 @@ MatrixOption = Annotated[
 def _console() -> Console:
     from rich.console import Console
 
-    return Console(highlight=False, soft_wrap=False)
+    return Console(highlight=False, soft_wrap=False, markup=False)
 
 
 def _table(title: str, *columns: str) -> Table:
@@ -76,7 +76,7 @@ def spectrum(
             typer.echo(to_json_line(profile))
             continue
         letter = {"laplacian": "L", "signless": "Q", "adjacency": "A"}[matrix]
-        console.print(f"[bold]{profile.name}[/bold]: {profile.vertices} vertices")
+        console.print(f"{profile.name}: {profile.vertices} vertices")
         if profile.polynomial is None:
             console.print(f"  det(xI - {letter}) not computed (more than 400 vertices)")
         else:
