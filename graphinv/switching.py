@@ -17,9 +17,13 @@ of ``C`` has the *same degree* in ``G``, then ``D`` is a scalar on ``C`` so ``R 
 switch preserves every degree (each vertex of ``C`` has as many switched neighbours before as
 after, by counting edges between ``C`` and the switched vertices), so ``R L R`` and ``R Q R``
 are the Laplacian and signless Laplacian of the switched graph: the mates are also L- and
-Q-cospectral.  This is the condition graphinv uses for ``matrix="laplacian"`` and
-``"signless"`` (compare Haemers & Spence 2004, §3); every mate is checked against the exact
-characteristic polynomial regardless.
+Q-cospectral.  With this ``R`` the condition is also necessary: the off-diagonal entries of
+``R D R`` on ``C`` vanish only when all degrees in ``C`` are equal.  This is the condition
+graphinv uses for ``matrix="laplacian"`` and ``"signless"`` (GM switching for L and Q is
+discussed by van Dam & Haemers 2003 and Haemers & Spence 2004 — memory); every mate is checked
+against the exact characteristic polynomial regardless.  Such sets are rare in small graphs:
+with sets of 4 vertices no graph on at most 8 vertices gets a non-isomorphic L-mate this way
+(exhaustive run over nauty-geng output), the first examples need about 10 vertices.
 
 The search tries every vertex set of each even size from 4 up to ``max_size``: about
 ``C(n, k) * n`` word operations for size ``k``, i.e. ``O(n^(max_size + 1))``.  The default
@@ -29,6 +33,8 @@ few dozen vertices.
 References
 ----------
 C. D. Godsil, B. D. McKay, "Constructing cospectral graphs", Aequationes Math. 25 (1982);
+E. R. van Dam, W. H. Haemers, "Which graphs are determined by their spectrum?", Linear Algebra
+Appl. 373 (2003);
 W. H. Haemers, E. Spence, "Enumeration of cospectral graphs", European J. Combin. 25 (2004);
 A. E. Brouwer, W. H. Haemers, *Spectra of Graphs*, Springer, 2012, §14.2.3.
 """

@@ -109,7 +109,7 @@ def test_adjacency_mates_on_seven_vertices_are_cospectral_and_new():
 
 def test_laplacian_switching_gives_laplacian_and_signless_mates():
     # The equal-degree condition makes R L R and R Q R the matrices of the switched graph
-    # (Godsil & McKay 1982; Haemers & Spence 2004, §3); checked against sympy.
+    # (derivation in graphinv.switching after Godsil & McKay 1982); checked against sympy.
     G = nx.Graph(LAPLACIAN_EXAMPLE)
     (found,) = godsil_mckay_sets(G, matrix="laplacian")
     assert found.vertices == (0, 1, 2, 3)
