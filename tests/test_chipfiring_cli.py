@@ -87,3 +87,21 @@ def test_generators_and_recurrents(cli_runner):
     assert result.exit_code == 0 and len(result.output.splitlines()) == 45
     result = cli_runner.invoke(app, ["chips", "recurrents", "wheel:4", "--limit", "10"])
     assert result.exit_code == 2 and "more than 10 recurrent configurations" in result.output
+
+
+def test_divisor_command(cli_runner):
+    # Baker-Norine 2007: on K4 (genus 3) the canonical divisor (1,1,1,1) has rank g - 1 = 2
+    arguments = ["chips", "divisor", "complete:4", "--jsonl"]
+    for v in range(4):
+        arguments += ["--put", f"{v}=1"]
+    result = cli_runner.invoke(app, arguments)
+    assert result.exit_code == 0, result.output
+    record = json.loads(result.output)
+    assert (record["degree"], record["genus"], record["rank"]) == (4, 3, 2)
+    assert record["rank_of_K_minus_D"] == 0  # Riemann-Roch: 2 - r(0) = 4 + 1 - 3
+    result = cli_runner.invoke(
+        app, ["chips", "divisor", "cycle:5", "--put", "0=1", "--put", "2=-1"]
+    )
+    assert result.exit_code == 0 and "rank: -1" in result.output
+    result = cli_runner.invoke(app, ["chips", "divisor", "cycle:5", "--put", "0=x"])
+    assert result.exit_code == 2 and "must be an integer" in result.output

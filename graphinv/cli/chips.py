@@ -1,7 +1,8 @@
 """``graphinv chips ...``: chip-firing on a graph with a sink.
 
 Commands: ``stabilize``, ``identity``, ``is-recurrent``, ``order``, ``coords``, ``generators``,
-``recurrents`` and ``grid-identity`` (the picture of the identity on the wired grid).  A configuration comes from
+``recurrents``, ``divisor`` (Baker-Norine rank and reduced form) and ``grid-identity`` (the
+picture of the identity on the wired grid).  A configuration comes from
 ``--chips FILE`` (lines ``VERTEX COUNT`` or a JSON object) and/or repeated ``--drop VERTEX=COUNT``;
 vertices are typed as they print (``3``, ``(0, 1)``, ``sink``).
 """
@@ -283,3 +284,67 @@ def recurrents_command(
     listing = superstable_configurations if superstable else recurrent_configurations
     for configuration in listing(graph, limit=limit):
         _emit(configuration.to_record())
+
+
+@command("divisor", on=chips)
+def divisor_command(
+    source: GraphSource,
+    put: Annotated[
+        list[str] | None,
+        typer.Option(
+            "--put",
+            "-p",
+            help="VERTEX=VALUE (repeatable; values may be negative), e.g. --put 0=3 --put 2=-1.",
+            show_default=False,
+        ),
+    ] = None,
+    q: Annotated[
+        str | None, typer.Option("--q", help="The vertex q of the q-reduced divisor.")
+    ] = None,
+    input_format: FormatOption = None,
+    jsonl: JsonLinesOption = False,
+) -> None:
+    """Degree, genus, Baker-Norine rank, r(K - D) and the q-reduced form of a divisor."""
+    from graphinv.chipfiring import ConfigurationError
+    from graphinv.chipfiring.configurations import vertex_by_name
+    from graphinv.divisors import (
+        canonical_divisor,
+        divisor_degree,
+        divisor_rank,
+        genus,
+        reduced_divisor,
+    )
+    from graphinv.io import read_graph
+
+    G = read_graph(source, format=input_format)
+    D: dict[Any, int] = {}
+    for item in put or []:
+        name, equals, value = item.rpartition("=")
+        if not equals or not name:
+            raise ConfigurationError(f"--put expects VERTEX=VALUE, not {item!r}")
+        try:
+            number = int(value)
+        except ValueError:
+            raise ConfigurationError(
+                f"--put {item!r}: the value must be an integer, not {value!r}"
+            ) from None
+        vertex = vertex_by_name(G, name)
+        D[vertex] = D.get(vertex, 0) + number
+    base = vertex_by_name(G, q) if q is not None else None
+    K = canonical_divisor(G)
+    complement = {v: K[v] - D.get(v, 0) for v in G}
+    reduced = reduced_divisor(G, D, q=base)
+    record = {
+        "degree": divisor_degree(D),
+        "genus": genus(G),
+        "rank": divisor_rank(G, D),
+        "rank_of_K_minus_D": divisor_rank(G, complement),
+        "reduced": {str(v): n for v, n in reduced.items()},
+    }
+    if jsonl:
+        _emit(record)
+        return
+    for key in ("degree", "genus", "rank", "rank_of_K_minus_D"):
+        typer.echo(f"{key.replace('_', ' ')}: {record[key]}")
+    where = base if base is not None else next(iter(G))
+    typer.echo(f"{where}-reduced divisor: " + ", ".join(f"{v}:{n}" for v, n in reduced.items()))
