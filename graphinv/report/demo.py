@@ -21,6 +21,7 @@ from __future__ import annotations
 
 import math
 import os
+import re
 import time
 from collections.abc import Sequence
 from dataclasses import dataclass
@@ -214,7 +215,7 @@ def default_demo_data() -> Path:
 
 
 def _description(path: Path) -> str:
-    """The ``# Design "...": ...`` comment block of a design file, as one line."""
+    """The ``# Design "name": ...`` comment block of a design file, as one line (no prefix)."""
     lines: list[str] = []
     for raw in path.read_text(encoding="utf-8").splitlines():
         text = raw.strip()
@@ -224,7 +225,7 @@ def _description(path: Path) -> str:
             lines.append(text.lstrip("#").strip())
         elif text.startswith("# Design"):
             lines.append(text.lstrip("#").strip())
-    return " ".join(lines)
+    return re.sub(r'^Design "[^"]*":\s*', "", " ".join(lines))
 
 
 def _min_cut(G: nx.Graph) -> int:

@@ -74,7 +74,8 @@ th, td { border: 1px solid #d5d5d5; padding: 4px 9px; text-align: left; vertical
 th { background: #f0f3f7; }
 td.num { text-align: right; font-variant-numeric: tabular-nums; }
 caption { caption-side: bottom; text-align: left; color: #666; font-size: 0.85em; padding-top: 3px; }
-td.wrap, pre { word-break: break-all; white-space: pre-wrap; }
+td.wrap { overflow-wrap: break-word; }
+pre { word-break: break-all; white-space: pre-wrap; }
 pre { background: #f6f6f6; padding: 8px 10px; font-size: 0.85em; border-radius: 4px; }
 figure { margin: 1em 0; }
 figure img { max-width: 100%; height: auto; border: 1px solid #eee; }
