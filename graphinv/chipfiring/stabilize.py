@@ -413,11 +413,16 @@ class _Solver:
             return np.asarray(self.lu.solve(rhs))
         import scipy.sparse.linalg
 
-        limit = 20 * int(math.sqrt(self.graph_size)) + 2000
+        root = int(math.sqrt(self.graph_size))
         if self.directed:
-            solution, _ = scipy.sparse.linalg.gmres(self.matrix, rhs, rtol=1e-13, maxiter=limit)
+            # maxiter counts restart cycles of 50 steps each
+            solution, _ = scipy.sparse.linalg.gmres(
+                self.matrix, rhs, rtol=1e-13, restart=50, maxiter=root + 20
+            )
         else:
-            solution, _ = scipy.sparse.linalg.cg(self.matrix, rhs, rtol=1e-13, maxiter=limit)
+            solution, _ = scipy.sparse.linalg.cg(
+                self.matrix, rhs, rtol=1e-13, maxiter=20 * root + 2000
+            )
         return np.asarray(solution)
 
 
