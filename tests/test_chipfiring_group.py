@@ -115,3 +115,11 @@ def test_trivial_group_of_a_tree():
     group = recurrent_group(nx.balanced_tree(2, 3))
     assert group.invariant_factors == () and group.generators == ()
     assert group.from_coordinates([]) == group.identity
+
+
+def test_size_limits_give_clear_errors():
+    cg = chip_graph(graphinv.wired_grid(5), sink="sink")
+    with pytest.raises(graphinv.GraphInvError, match="max_vertices=10"):
+        recurrent_group(cg, max_vertices=10)
+    with pytest.raises(graphinv.GraphInvError, match="max_vertices=10"):
+        configuration_order(cg.zero(), max_vertices=10)

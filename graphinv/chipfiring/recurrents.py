@@ -394,11 +394,23 @@ def recurrent_negative(a: Configuration) -> Configuration:
     return Configuration(graph, _recurrent_of(graph, as_chip_vector(negated.tolist())))
 
 
-def configuration_order(configuration: Configuration) -> int:
+def configuration_order(configuration: Configuration, *, max_vertices: int = 4000) -> int:
     """The order of the configuration's class in the critical group (any integer counts).
 
     The least ``k >= 1`` with ``k c`` in the image of ``L~^T``: the least common multiple of
     the denominators of ``(L~^T)^{-1} c``, solved exactly (dense, python-flint).
+
+    Parameters
+    ----------
+    configuration : Configuration
+        Any integer counts.
+    max_vertices : int, optional
+        Refuse larger graphs (the dense solve needs ``n^2`` memory) with a clear error.
+
+    Raises
+    ------
+    GraphInvError
+        More than ``max_vertices`` non-sink vertices.
 
     Examples
     --------
@@ -413,6 +425,11 @@ def configuration_order(configuration: Configuration) -> int:
     graph = configuration.graph
     if not len(graph):
         return 1
+    if len(graph) > max_vertices:
+        raise GraphInvError(
+            f"the order is found by an exact dense solve; this graph has {len(graph)} non-sink "
+            f"vertices, more than max_vertices={max_vertices}"
+        )
     import flint
 
     rows = graph.laplacian.toarray().tolist()
