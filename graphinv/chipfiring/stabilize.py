@@ -402,11 +402,7 @@ class _Solver:
         bound = np.ceil(self.solve(rhs))
         self.green_bound: np.ndarray | None = None
         if np.isfinite(bound).all() and float(bound.max()) < 2.0**52:
-            candidate = bound.astype(np.int64)
-            if fits_int64(candidate, graph.row_weight + 1) and bool(
-                (graph.laplacian @ candidate >= 1).all()
-            ):
-                self.green_bound = candidate
+            self.green_bound = _repair_bound(graph, np.maximum(bound, 0).astype(np.int64))
 
     def solve(self, rhs: np.ndarray) -> np.ndarray:
         if self.lu is not None:
@@ -424,6 +420,26 @@ class _Solver:
                 self.matrix, rhs, rtol=1e-13, maxiter=20 * root + 2000
             )
         return np.asarray(solution)
+
+
+def _repair_bound(graph: ChipGraph, start: np.ndarray, passes: int = 10_000) -> np.ndarray | None:
+    """An integer ``h >= start`` with ``L~^T h >= 1`` (checked exactly), or ``None``.
+
+    Raising ``h`` where ``L~^T h`` falls short is a firing process towards the sink, so it ends;
+    a good floating-point start makes it end at once.  Any such ``h`` bounds ``(L~^T)^{-1} 1``
+    from above, because ``(L~^T)^{-1}`` is entrywise nonnegative.
+    """
+    h = start.copy()
+    degree = graph.degree
+    for _ in range(passes):
+        if not fits_int64(h, graph.row_weight + 1):
+            return None
+        deficit = 1 - graph.laplacian @ h
+        short = deficit > 0
+        if not short.any():
+            return h
+        h[short] += (deficit[short] + degree[short] - 1) // degree[short]
+    return None
 
 
 def _direct_is_safe(graph: ChipGraph) -> bool:
