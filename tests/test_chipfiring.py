@@ -199,7 +199,7 @@ def test_abelian_property_against_one_vertex_at_a_time(seed, kind):
     rng = random.Random(seed)
     G, sink = random_graph(rng, kind)
     cg = chip_graph(G, sink=sink)
-    chips = [rng.randint(0, 4 * int(d)) for d in cg.degree]
+    chips = [rng.randint(-3, 4 * int(d)) for d in cg.degree]  # negative counts never fire
     result = stabilize(Configuration(cg, np.array(chips, dtype=np.int64)))
     for _ in range(2):
         final, firings = sequential_stabilize(cg, chips, rng)
@@ -451,3 +451,15 @@ def test_head_start_is_safe_whatever_the_solver_returns(mode, monkeypatch):
     assert result.firings.tolist() == firings.tolist()
     if mode == "iterative":
         assert result.rounds < rounds / 2  # the certified head start did apply
+
+
+@pytest.mark.slow
+def test_identity_of_the_100_grid_is_idempotent_and_symmetric():
+    # The identity e satisfies e + e = e, is recurrent, and is invariant under the symmetries of
+    # the square (common fact: the identity is unique in the group).
+    cg = chip_graph(wired_grid(100), sink="sink")
+    e = identity_configuration(cg)
+    assert is_recurrent(e)
+    assert stabilize(e + e).stable == e
+    grid = e.chips.reshape(100, 100)
+    assert (grid == grid.T).all() and (grid == grid[::-1, ::-1]).all()
