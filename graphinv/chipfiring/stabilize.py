@@ -69,7 +69,7 @@ class Stabilization:
         How often each non-sink vertex fired (the odometer), in the chip graph's vertex order;
         ``int64`` or Python ints.
     rounds : int
-        Vectorised rounds used (a measure of work, not an invariant).
+        Vectorised rounds (or colour-class sweeps) used: a measure of work, not an invariant.
 
     References
     ----------
