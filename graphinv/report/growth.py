@@ -84,6 +84,28 @@ class GrowthFit:
             c * t for c, t in zip(self.coefficients, _terms(vertices, len(self.coefficients)), strict=True)
         )
 
+    def _repr_html_(self) -> str:
+        import html
+
+        rows = "".join(
+            f"<tr><td>{html.escape(name)}</td><td>{n}</td><td>{value:.6f}</td>"
+            f"<td>{'exact' if exact else 'sparse log-determinant'}</td></tr>"
+            for name, n, value, exact in zip(
+                self.labels, self.vertex_counts, self.log_counts, self.exact, strict=True
+            )
+        )
+        limit = (
+            f"; limit {self.limit:.6f} ({html.escape(self.limit_source or '')})"
+            if self.limit is not None
+            else ""
+        )
+        return (
+            f"<table><caption>{html.escape(self.family)}: fitted growth "
+            f"{self.per_vertex:.6f} per vertex{limit}</caption>"
+            "<tr><th>graph</th><th>N</th><th>log τ (float)</th><th>count</th></tr>"
+            f"{rows}</table>"
+        )
+
     def to_record(self) -> dict[str, Any]:
         """A JSON-ready dict (all floats are labelled as fitted or approximate values)."""
         return {

@@ -84,6 +84,31 @@ class RandomGroupSample:
         """The fraction of sampled groups of exactly this rank."""
         return dict(self.rank_counts).get(rank, 0) / self.samples
 
+    def _repr_html_(self) -> str:
+        import html
+
+        record = self.to_record()
+        rows = "".join(
+            f"<tr><td>rank {r['rank']}</td><td>{r['count']}</td>"
+            f"<td>{r['count'] / self.samples:.4f}</td>"
+            f"<td>{'' if r['limit'] is None else format(r['limit'], '.4f')}</td></tr>"
+            for r in record["ranks"]
+        )
+        rows += (
+            f"<tr><td>cyclic</td><td>{self.cyclic}</td><td>{self.cyclic_fraction:.4f}</td>"
+            f"<td>{record['cyclic_limit']:.4f}</td></tr>"
+        )
+        rows += "".join(
+            f"<tr><td>no {s['p']}-torsion</td><td>{s['count']}</td>"
+            f"<td>{s['count'] / self.samples:.4f}</td><td>{s['limit']:.4f}</td></tr>"
+            for s in record["sylow_trivial"]
+        )
+        return (
+            f"<table><caption>{html.escape(self.spec)}</caption>"
+            "<tr><th></th><th>graphs</th><th>fraction</th><th>limit (Wood 2017)</th></tr>"
+            f"{rows}</table>"
+        )
+
     def to_record(self) -> dict[str, Any]:
         """A JSON-ready dict of the tallies and the limiting predictions beside them."""
         from graphinv.report.limits import (

@@ -64,7 +64,9 @@ def test_fit_needs_two_sizes_and_connected_graphs():
         fit_growth([4, 9], [1.0, 2.0], dimension=3)
 
 
-def test_record_is_json_ready():
-    record = grid_growth(range(2, 7)).to_record()
+def test_record_is_json_ready_and_renders_in_notebooks():
+    fit = grid_growth(range(2, 7))
+    assert "per vertex; limit 3.209912" in fit._repr_html_()
+    record = fit.to_record()
     assert record["limit_source"].startswith("exp(4G/π)")
     assert [g["vertices"] for g in record["graphs"]] == [4, 9, 16, 25, 36]

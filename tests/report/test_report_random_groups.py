@@ -51,6 +51,7 @@ def test_rank_law_sums_to_one():
 def test_sample_is_reproducible_from_its_spec():
     sample = sample_random_groups(10, "1/2", samples=30, first_seed=5)
     assert sample.spec == "gnp:10,1/2,seed=5..34"
+    assert "<caption>gnp:10,1/2,seed=5..34</caption>" in sample._repr_html_()
     assert sum(count for _, count in sample.rank_counts) == 30
     from graphinv import critical_group
 
