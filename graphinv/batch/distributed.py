@@ -82,6 +82,7 @@ class DaskExecutor:
             except OSError as exc:
                 raise GraphInvError(f"cannot reach the Dask scheduler {scheduler}: {exc}") from None
         else:
+            import logging
             import os
 
             count = workers or os.cpu_count() or 1
@@ -90,6 +91,8 @@ class DaskExecutor:
                 threads_per_worker=1,
                 processes=processes,
                 dashboard_address=None,
+                # Shutting the cluster down races worker heartbeats; those logs are noise here.
+                silence_logs=logging.CRITICAL,
             )
             self.client = Client(self._cluster)
         info = self.client.scheduler_info()

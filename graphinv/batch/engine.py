@@ -42,6 +42,8 @@ ENGINES = ("local", "dask")
 COMMIT_SECONDS = 1.0
 #: ... or once this many rows are waiting.
 COMMIT_ROWS = 20000
+#: Files of a folder input per task (their text travels with the task).
+FILES_PER_CHUNK = 16
 
 
 @dataclass(frozen=True)
@@ -412,7 +414,9 @@ def _drive(
         for source, input_id in zip(sources, ids, strict=True):
             settings = KernelSettings(selected, max_vertices, source.format)
             kind = "edges" if source.kind == "family" else source.kind
-            for chunk in _chunks(source, db, input_id, settings, chunk_size, retry_errors, skip):
+            # Whole files travel as text: smaller chunks keep the data in flight small.
+            size = min(chunk_size, FILES_PER_CHUNK) if kind == "files" else chunk_size
+            for chunk in _chunks(source, db, input_id, settings, size, retry_errors, skip):
                 while len(pending) >= limit:
                     collect()
                 pending[executor.submit(chunk, settings, kind)] = input_id

@@ -46,6 +46,7 @@ B. D. McKay, "Description of graph6, sparse6 and digraph6 encodings" (nauty docu
 
 from __future__ import annotations
 
+import io
 import math
 import sys
 from collections.abc import Callable, Iterable, Sequence
@@ -564,8 +565,10 @@ def _stacked_matrices(
 
 
 #: A task item: (position, 1-based line or None, content key, payload).  The payload is None
-#: for a graph6/sparse6 line (the content is the text), a file path for ``kind="files"``, and
-#: ``(n, [(u, v, multiplicity), ...])`` for ``kind="edges"``.
+#: for a graph6/sparse6 line (the content is the text); ``(suffix format, file name, text)``
+#: for ``kind="files"`` (the text travels, so remote workers need no shared file system); and
+#: ``(n, [(u, v, multiplicity), ...])`` for ``kind="edges"``.  A payload that is a string is
+#: the message of a graph that could not even be read.
 TaskItem = tuple[int, "int | None", str, Any]
 #: A result row: (position, line, content, *RESULT_COLUMNS values, error).
 ResultItem = tuple[Any, ...]
@@ -585,15 +588,30 @@ def _parse_line(text: str, input_format: str | None) -> tuple[int, list[tuple[in
     return parse_graph6(text)
 
 
-def _graph_from_file(path: str, input_format: str | None) -> tuple[int, list[tuple[int, int, int]]]:
-    """``(n, [(u, v, multiplicity), ...])`` of the one graph in the file ``path``."""
-    from graphinv.errors import GraphFormatError
+class _NamedText(io.StringIO):
+    """File text shipped to a worker, keeping the file's name for error messages."""
+
+    def __init__(self, text: str, name: str) -> None:
+        super().__init__(text)
+        self.name = name
+
+
+def _graph_from_file(payload: Any, input_format: str | None) -> tuple[int, list[Any]]:
+    """``(n, [(u, v, multiplicity), ...])`` of the one graph in a file's shipped text.
+
+    ``payload`` is ``(format from the suffix, file name, text)``, or the message of a file that
+    could not be read.
+    """
+    from graphinv.errors import GraphFormatError, GraphInvError
     from graphinv.io import read_graphs
 
-    graphs = list(read_graphs(path, format=input_format))
+    if isinstance(payload, str):
+        raise GraphInvError(payload)
+    suffix_format, name, text = payload
+    graphs = list(read_graphs(_NamedText(text, name), format=input_format or suffix_format))
     if len(graphs) != 1:
         raise GraphFormatError(
-            f"expected one graph per file in a folder, found {len(graphs)}", source=path
+            f"expected one graph per file in a folder, found {len(graphs)}", source=name
         )
     return graph_edges(graphs[0])
 
@@ -628,8 +646,8 @@ def process_chunk(
     settings : KernelSettings
         What to compute.
     kind : {"lines", "files", "edges"}
-        What the items hold: graph6/sparse6 lines, paths of files holding one graph each, or
-        graphs already given as ``(n, edges)``.
+        What the items hold: graph6/sparse6 lines, the text of files holding one graph each,
+        or graphs already given as ``(n, edges)``.
 
     Returns
     -------
@@ -661,6 +679,8 @@ def process_chunk(
                 n, graph = _parse_line(content, input_format)
             elif kind == "files":
                 n, graph = _graph_from_file(payload, input_format)
+            elif isinstance(payload, str):
+                raise GraphInvError(payload)
             else:
                 n, graph = payload
             if limit is not None and n > limit:

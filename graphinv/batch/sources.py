@@ -87,7 +87,7 @@ class BatchInput:
             base = Path(self.source)
             for position, path in enumerate(self.paths):
                 name = str(Path(path).relative_to(base)) if base.is_dir() else Path(path).name
-                yield (position, None, name, path)
+                yield (position, None, name, _file_payload(path))
         else:
             yield from self._family()
 
@@ -122,6 +122,21 @@ def _data_lines(stream: IO[str]) -> Iterator[TaskItem]:
         if text and text[0] != "#":
             yield (position, number, text, None)
             position += 1
+
+
+def _file_payload(path: str) -> tuple[str | None, str, str] | str:
+    """What a worker needs to read one graph file: its suffix format, name and text."""
+    from graphinv.io.readers import infer_format
+
+    try:
+        with _open_binary(path) as stream:
+            data = stream.read()
+        text = data.decode("utf-8")
+    except UnicodeDecodeError as exc:
+        return f"{path}: not UTF-8 text ({exc.reason} at byte {exc.start})"
+    except OSError as exc:
+        return f"{path}: cannot read ({exc.strerror or exc})"
+    return (infer_format(path), path, text)
 
 
 def _open_binary(path: str) -> IO[bytes]:

@@ -115,3 +115,44 @@ def test_changed_input_is_refused(tmp_path):
     source.write_text("Bw\nC~\n")
     with pytest.raises(StoreError, match="has changed since it was stored: graph 1 was 'CF'"):
         run_batch([str(source)], store=store, workers=1)
+
+
+def test_ctrl_c_keeps_finished_rows_and_records_the_interruption(tmp_path, random_graphs):
+    source, total = random_graphs
+    store = tmp_path / "interrupted.db"
+    command = [
+        sys.executable,
+        "-m",
+        "graphinv",
+        "batch",
+        str(source),
+        "--store",
+        str(store),
+        "--workers",
+        "2",
+        "--chunk",
+        "50",
+        "--quiet",
+    ]
+    process = subprocess.Popen(command, start_new_session=True, stderr=subprocess.PIPE)
+    deadline = time.monotonic() + 120
+    try:
+        while _count(store) < 100:
+            assert process.poll() is None
+            assert time.monotonic() < deadline, "the batch stored nothing in two minutes"
+            time.sleep(0.05)
+        os.killpg(process.pid, signal.SIGINT)  # Ctrl-C reaches the whole process group
+        _, stderr = process.communicate(timeout=60)
+    finally:
+        if process.poll() is None:
+            os.killpg(process.pid, signal.SIGKILL)
+            process.wait()
+    assert process.returncode == 130
+    assert stderr.decode().strip().splitlines()[-1] == "interrupted"
+    connection = sqlite3.connect(store)
+    status, computed = connection.execute("SELECT status, computed FROM runs").fetchone()
+    stored = connection.execute("SELECT COUNT(*) FROM graphs").fetchone()[0]
+    connection.close()
+    assert status == "interrupted" and computed == stored and 0 < stored < total
+    resumed = run_batch([str(source)], store=store, workers=2, progress=False)
+    assert resumed.skipped == stored and resumed.computed == total - stored
