@@ -11,6 +11,8 @@ $(STAMP): pyproject.toml
 	@test -x $(PY) || $(PYTHON) -m venv $(VENV)
 	$(PY) -m pip install --quiet --upgrade pip
 	$(PY) -m pip install --quiet -e ".[test,dev,dask,parquet]"
+	@# pynauty builds nauty from source (about a minute); without it networkx decides isomorphism.
+	$(PY) -m pip install --quiet -e ".[nauty]" || echo "note: pynauty did not build; isomorphism falls back to networkx"
 	@touch $(STAMP)
 
 setup: $(STAMP)
