@@ -635,13 +635,31 @@ def store_report(store: str | os.PathLike[str]) -> str:
         ),
     ]
     if survey.rank_counts:
+        # Random graphs G(n, q) only: there the limiting law of Wood (2017) is the yardstick.
+        random_inputs = bool(survey.inputs) and all(
+            str(item.get("source", "")).startswith("gnp:") for item in survey.inputs
+        )
+        limit = None
+        paragraphs: tuple[str, ...] = ()
+        if random_inputs:
+            from graphinv.report.limits import cyclic_probability_limit, rank_distribution_limit
+
+            limit = rank_distribution_limit(max(max(survey.rank_counts), 1))
+            paragraphs = (
+                "Every input is a family of random graphs G(n, q): red marks give the limiting "
+                "law of the rank as n grows (Wood 2017), under which a fraction "
+                f"∏ζ(2k+1)⁻¹ = {cyclic_probability_limit():.5f} of the groups is cyclic.",
+            )
         sections.append(
             Section(
                 "Critical-group ranks",
+                paragraphs=paragraphs,
                 figures=(
                     embed_figure(
                         rank_distribution_figure(
-                            survey.rank_counts, title="Ranks of the critical groups (connected graphs)"
+                            survey.rank_counts,
+                            title="Ranks of the critical groups (connected graphs)",
+                            limit=limit,
                         ),
                         title="Distribution of critical-group rank",
                         caption="Connected graphs only; rank = number of invariant factors.",

@@ -89,6 +89,17 @@ def test_store_report(tmp_path):
     # W8 has 2205 spanning trees (OEIS A004146), the most of W3..W8, so it heads the table of
     # largest groups.
     assert "2205" in page
+    assert "Wood 2017" not in page  # wheels are not random graphs: no limiting law drawn
+
+
+def test_store_of_random_graphs_shows_the_limiting_law(tmp_path):
+    from graphinv.batch.engine import run_batch
+
+    path = tmp_path / "random.db"
+    run_batch(["gnp:10,1/2,seed=1..40"], store=str(path), workers=1)
+    page = store_report(path)
+    assert_self_contained(page)
+    assert "0.79352" in page  # ∏ ζ(2k+1)^-1 (Clancy et al. 2015; Wood 2017)
 
 
 def test_text_is_escaped():
