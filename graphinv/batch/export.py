@@ -192,6 +192,11 @@ def _write_parquet(db: BatchStore, path: str) -> int:
     batch: list[dict[str, Any]] = []
     with pq.ParquetWriter(path, schema) as writer:
         for record in export_records(db):
+            if isinstance(record["edges"], str):
+                raise GraphInvError(
+                    f"graph {record['index']} of {record['input']} has {record['edges']} edges, "
+                    "beyond Parquet's 64-bit integers; export it as jsonl or csv"
+                )
             batch.append(record)
             if len(batch) == 65536:
                 writer.write_batch(pa.RecordBatch.from_pylist(batch, schema=schema))

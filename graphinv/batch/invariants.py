@@ -168,7 +168,7 @@ class InvariantRow:
     """
 
     vertices: int
-    edges: int
+    edges: int | str
     components: int | None = None
     critical_group: str | None = None
     group_rank: int | None = None
@@ -406,6 +406,8 @@ def _core() -> tuple[Callable[..., Any], Callable[..., Any], Callable[..., Any]]
 #: Up to this many vertices the polynomials of a chunk are computed together, as a NumPy stack
 #: (:func:`graphinv.spectrum.characteristic_polynomials`); larger graphs go one by one.
 _STACK_LIMIT = 16
+#: Multiplicities above this stay out of the stack (its int64 matrices must not overflow).
+_STACK_WEIGHT = 1 << 20
 
 
 def _laplacians(
@@ -486,7 +488,9 @@ def _finish(
 
     smith_diagonal, determinant, _ = _core()
     n = len(rows)
-    values: dict[str, Any] = {"vertices": n, "edges": sum(degrees) // 2}
+    edges = sum(degrees) // 2
+    # SQLite integers have 64 bits; a larger edge count (huge multiplicities) is stored as text.
+    values: dict[str, Any] = {"vertices": n, "edges": edges if edges < 2**63 else str(edges)}
     order: int | None = None
     if "critical_group" in wanted:
         # Rows and columns of L sum to zero, so coker L = coker(reduced L) + Z (Biggs 1999):
@@ -692,7 +696,10 @@ def process_chunk(
         except (GraphInvError, ValueError, ArithmeticError, OSError) as exc:
             out[slot] = _error_row(position, line, content, _message(exc, line))
             continue
-        by_size.setdefault(n if n <= _STACK_LIMIT else -slot - 1, []).append((slot, n, graph))
+        stacked = n <= _STACK_LIMIT and (
+            kind == "lines" or all(len(e) < 3 or e[2] <= _STACK_WEIGHT for e in graph)
+        )
+        by_size.setdefault(n if stacked else -slot - 1, []).append((slot, n, graph))
     for key, members in by_size.items():
         try:
             if key >= 0:

@@ -95,7 +95,7 @@ CREATE TABLE IF NOT EXISTS graphs (
     line INTEGER,
     content TEXT NOT NULL,
     vertices INTEGER,
-    edges INTEGER,
+    edges,  -- no affinity: an integer, or decimal text beyond 64 bits
     components INTEGER,
     critical_group TEXT,
     group_rank INTEGER,

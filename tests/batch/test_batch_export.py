@@ -83,3 +83,19 @@ def test_bad_export_requests(small_store, tmp_path):
     sqlite3.connect(not_a_store).execute("CREATE TABLE t (x)").connection.commit()
     with pytest.raises(StoreError, match="not a graphinv batch store"):
         export_store(not_a_store)
+
+
+def test_huge_multiplicities_stay_exact(tmp_path):
+    # Two vertices joined by m parallel edges: K = Z_m and m spanning trees (common fact)
+    m = 10**30
+    source = tmp_path / "bundle.edges"
+    source.write_text(f"a b {m}\nb c\n")
+    store = tmp_path / "bundle.db"
+    run_batch([str(source)], store=store, workers=1)
+    out = io.StringIO()
+    export_store(store, format="jsonl", stream=out)
+    (record,) = [json.loads(line) for line in out.getvalue().splitlines()]
+    assert record["critical_group"] == [str(m)] and record["spanning_trees"] == str(m)
+    assert record["edges"] == str(m + 1)
+    with pytest.raises(GraphInvError, match="beyond Parquet's 64-bit integers"):
+        export_store(store, format="parquet", output=tmp_path / "bundle.parquet")
