@@ -681,7 +681,7 @@ def print_demo(result: DemoResult, console: Console) -> None:
     if result.cospectral:
         console.print("[bold]Designs that share a spectrum[/bold]")
         for finding in result.cospectral:
-            console.print(f"  • {finding.sentence()}", highlight=False)
+            _say(console, finding.sentence(), first="  • ", rest="    ")
     else:
         console.print("No two designs share a spectrum.")
     console.print()
@@ -689,7 +689,7 @@ def print_demo(result: DemoResult, console: Console) -> None:
     line = f"Street-grid duct plans: fitted growth {mesh.per_vertex:.5f} spanning trees per vertex"
     if mesh.limit is not None:
         line += f" (square-grid limit exp(4G/π) = {mesh.limit:.5f}, Temperley 1974)"
-    console.print(line, highlight=False)
+    _say(console, line)
     console.print()
     console.print(f"Report:  {result.report}", highlight=False)
     console.print(f"Records: {result.records}", highlight=False)
@@ -698,4 +698,17 @@ def print_demo(result: DemoResult, console: Console) -> None:
     )
     console.print(f"Done in {result.seconds:.1f} s.", highlight=False)
     console.print()
-    console.print(f"[italic]{DISCLAIMER}[/italic]")
+    _say(console, DISCLAIMER, style="italic")
+
+
+def _say(console: Console, text: str, *, first: str = "", rest: str = "", style: str = "") -> None:
+    """Print a paragraph wrapped at the console width with a hanging indent."""
+    import textwrap
+
+    width = max(40, min(console.width, 100))
+    # Keep each group such as "Z/10 ⊕ Z/60" on one line: protect its spaces while wrapping.
+    protected = text.replace(" ⊕ ", "\u00a0⊕\u00a0")
+    wrapped = textwrap.fill(
+        protected, width=width, initial_indent=first, subsequent_indent=rest
+    ).replace("\u00a0", " ")
+    console.print(wrapped, style=style or None, highlight=False, markup=False, soft_wrap=True)
