@@ -122,6 +122,19 @@ class LocalExecutor:
     ----------
     workers : int, optional
         How many processes; default all cores (``os.cpu_count()``).
+
+    Examples
+    --------
+    >>> from graphinv.batch.invariants import KernelSettings
+    >>> executor = LocalExecutor(1)            # computes in this process
+    >>> handle = executor.submit([(0, 1, "Bw", None)], KernelSettings(("spanning_trees",)), "lines")
+    >>> [rows[0][8] for _, rows in executor.wait({handle})]   # the triangle: 3 spanning trees
+    ['3']
+    >>> executor.close(cancel=False)
+
+    References
+    ----------
+    Python documentation, ``concurrent.futures.ProcessPoolExecutor``.
     """
 
     def __init__(self, workers: int | None = None) -> None:

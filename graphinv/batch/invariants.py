@@ -108,6 +108,10 @@ def parse_invariants(text: str | Iterable[str] | None) -> tuple[str, ...]:
     ('critical_group', 'spanning_trees')
     >>> parse_invariants(None) == INVARIANTS
     True
+
+    References
+    ----------
+    N. Biggs, "Chip-firing and the critical group of a graph", J. Algebraic Combin. 9 (1999).
     """
     from graphinv.errors import GraphInvError
 
@@ -241,6 +245,11 @@ def adjacency_rows(n: int, edges: Iterable[Sequence[int]]) -> list[list[int]]:
     --------
     >>> adjacency_rows(3, [(0, 1), (1, 2), (1, 2), (2, 2)])
     [[0, 1, 0], [1, 0, 2], [0, 2, 0]]
+
+    References
+    ----------
+    N. Biggs, *Algebraic Graph Theory*, 2nd ed., Cambridge University Press, 1993 (multigraph
+    adjacency matrices).
     """
     rows = [[0] * n for _ in range(n)]
     for edge in edges:
@@ -628,6 +637,10 @@ def graph_edges(G: Any) -> tuple[int, list[tuple[int, int, int]]]:
     >>> import networkx as nx
     >>> graph_edges(nx.MultiGraph([("a", "b"), ("a", "b"), ("b", "c")]))
     (3, [(0, 1, 2), (1, 2, 1)])
+
+    References
+    ----------
+    N. Biggs, *Algebraic Graph Theory*, 2nd ed., 1993 (multiplicities as integer weights).
     """
     from graphinv._graphs import weighted_edges
 
@@ -667,6 +680,11 @@ def process_chunk(
     (0, '3', None)
     >>> rows[1][0], rows[1][-1]
     (1, "line 2: malformed graph6: character '!' ...")
+
+    References
+    ----------
+    B. D. McKay, formats.txt (graph6, sparse6); Biggs 1999 (critical group); Kelmans and
+    Chelnokov 1974 (tree count from the Laplacian polynomial).
     """
     from graphinv.errors import GraphInvError
 

@@ -196,6 +196,10 @@ def resolve_inputs(
     --------
     >>> [(i.source, i.kind) for i in resolve_inputs(["cycle:3..5", "-"])]
     [('cycle:3..5', 'family'), ('stdin:default', 'lines')]
+
+    References
+    ----------
+    B. D. McKay, formats.txt (graph6 and sparse6 streams).
     """
     from graphinv.io.families import is_family_spec
 

@@ -141,6 +141,10 @@ def decode_value(column: str, value: Any) -> Any:
     (['2', '10', '10'], [])
     >>> decode_value("degrees", "3,3,2"), decode_value("spanning_trees", "16")
     ([3, 3, 2], '16')
+
+    References
+    ----------
+    JSON Lines, https://jsonlines.org (integers beyond 2^53 as decimal strings).
     """
     if value is None:
         return None
