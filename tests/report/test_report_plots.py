@@ -84,3 +84,15 @@ def test_drawing_rejects_an_empty_graph():
 def test_save_figure_rejects_unknown_format(tmp_path):
     with pytest.raises(ValueError, match="formats"):
         save_figure(graph_figure(nx.path_graph(2)), tmp_path / "x", formats=["pdf"])
+
+
+def test_committed_readme_figures_exist_and_stay_small():
+    from pathlib import Path
+
+    from graphinv.report.gallery import FIGURE_NAMES
+
+    folder = Path(__file__).resolve().parents[2] / "figures"
+    for name in FIGURE_NAMES:
+        png = folder / f"{name}.png"
+        assert png.read_bytes().startswith(PNG_MAGIC), png
+        assert png.stat().st_size < 200_000, png
