@@ -115,14 +115,9 @@ def test_write_report_dispatch(tmp_path):
     assert many.path.read_text(encoding="utf-8").startswith("<!DOCTYPE html>")
 
 
-@pytest.mark.chromium
-def test_report_renders_in_headless_chromium(tmp_path):
-    browser = shutil.which("chromium") or shutil.which("chromium-browser")
-    if browser is None:
-        pytest.skip("chromium is not on the PATH")
-    written = write_report("grid:2..5", output=tmp_path / "grids.html")
-    shot = tmp_path / "shot.png"
-    done = subprocess.run(
+def _chromium(browser: str, uri: str, *options: str, cwd: Path) -> subprocess.CompletedProcess:
+    """Run headless Chromium on a file URI with networking off."""
+    return subprocess.run(
         [
             browser,
             "--headless",
@@ -130,15 +125,26 @@ def test_report_renders_in_headless_chromium(tmp_path):
             "--disable-gpu",
             "--disable-background-networking",
             "--no-first-run",
-            "--window-size=1000,1400",
-            f"--screenshot={shot}",
-            written.path.resolve().as_uri(),
+            *options,
+            uri,
         ],
         capture_output=True,
+        text=True,
         timeout=120,
         check=False,
-        cwd=tmp_path,
+        cwd=cwd,
     )
+
+
+@pytest.mark.chromium
+def test_report_renders_in_headless_chromium(tmp_path):
+    browser = shutil.which("chromium") or shutil.which("chromium-browser")
+    if browser is None:
+        pytest.skip("chromium is not on the PATH")
+    written = write_report("grid:2..5", output=tmp_path / "grids.html")
+    uri = written.path.resolve().as_uri()
+    shot = tmp_path / "shot.png"
+    done = _chromium(browser, uri, "--window-size=1000,1400", f"--screenshot={shot}", cwd=tmp_path)
     assert done.returncode == 0, done.stderr[-500:]
     from PIL import Image, ImageStat
 
@@ -146,22 +152,6 @@ def test_report_renders_in_headless_chromium(tmp_path):
         assert image.size == (1000, 1400)
         spread = ImageStat.Stat(image.convert("L")).stddev[0]
     assert spread > 10  # not a blank page: text, tables and figures were drawn
-    dom = subprocess.run(
-        [
-            browser,
-            "--headless",
-            "--no-sandbox",
-            "--disable-gpu",
-            "--disable-background-networking",
-            "--no-first-run",
-            "--dump-dom",
-            written.path.resolve().as_uri(),
-        ],
-        capture_output=True,
-        text=True,
-        timeout=120,
-        check=False,
-        cwd=tmp_path,
-    )
+    dom = _chromium(browser, uri, "--dump-dom", cwd=tmp_path)
     assert "Spanning-tree growth" in dom.stdout
     assert Path(written.path).stat().st_size == written.size
