@@ -406,20 +406,15 @@ def summary_table(summary: GraphSummary) -> Table:
     │   cyclic        │ yes      │
     └─────────────────┴──────────┘
     """
+    from rich import box
     from rich.table import Table
 
-    table = Table(title=summary.name, show_header=False, box=_box())
+    table = Table(title=summary.name, show_header=False, box=box.SQUARE)
     table.add_column("quantity", style="bold", no_wrap=True)
     table.add_column("value", overflow="fold")
     for label, value in summary.rows():
         table.add_row(label, value)
     return table
-
-
-def _box() -> Any:
-    from rich import box
-
-    return box.SQUARE
 
 
 def summaries_table(summaries: Iterable[GraphSummary], *, title: str | None = None) -> Table:
