@@ -312,7 +312,6 @@ def _figures(
     graphs: dict[str, nx.Graph],
     findings: Sequence[CospectralFinding],
     mesh: GrowthFit,
-    folder: Path,
 ) -> list[tuple[str, str, str, Any]]:
     """``(file stem, title, caption, matplotlib figure)`` for every demo figure."""
     from graphinv.report.plots import (
@@ -343,11 +342,10 @@ def _figures(
         )
     )
     seen: set[tuple[str, ...]] = set()
-    for finding in findings:
-        if finding.matrix != "laplacian" or finding.designs in seen:
-            continue
-        seen.add(finding.designs)
-        figures.append(_pair_figure(finding, graphs, positions))
+    for finding in findings:  # one drawing per set of designs, whichever spectrum they share
+        if finding.designs not in seen:
+            seen.add(finding.designs)
+            figures.append(_pair_figure(finding, graphs, positions))
     figures.append(
         (
             "mesh-growth",
@@ -357,7 +355,6 @@ def _figures(
             growth_figure(mesh),
         )
     )
-    del folder
     return figures
 
 
@@ -397,7 +394,10 @@ def _pair_figure(
     graphs: dict[str, nx.Graph],
     positions: dict[Any, tuple[float, float]],
 ) -> tuple[str, str, str, Any]:
-    """Cospectral designs side by side, coloured by their identity configurations."""
+    """Cospectral designs side by side, coloured by their identity configurations.
+
+    Vertex names must be shared by the designs (they are drawn on one map of the campus).
+    """
     from graphinv.chipfiring import recurrent_identity
     from graphinv.report.plots import graphs_figure
 
@@ -416,7 +416,8 @@ def _pair_figure(
     )
     return (
         "cospectral-" + "-".join(finding.designs),
-        f"Laplacian-cospectral designs: {' and '.join(finding.designs)}",
+        f"{_MATRIX_NAMES.get(finding.matrix, finding.matrix)}-cospectral designs: "
+        f"{' and '.join(finding.designs)}",
         caption,
         graphs_figure(
             panels,
@@ -613,7 +614,7 @@ def run_demo(*, out: str | os.PathLike[str], data: str | os.PathLike[str] | None
     mesh = _mesh_growth(folder)
     written: list[Path] = []
     embedded = {}
-    for stem, title, caption, figure in _figures(designs, graphs, findings, mesh, folder):
+    for stem, title, caption, figure in _figures(designs, graphs, findings, mesh):
         files = save_figure(figure, target / "figures" / stem)
         written.extend(files)
         # Embed the PNG just written rather than drawing the figure a third time.
