@@ -59,6 +59,8 @@ __all__ = [
 
 #: A collection report reads at most this many graphs by default (use a batch store beyond).
 COLLECTION_LIMIT = 2000
+#: A collection report looks for cospectral classes when no graph has more vertices than this.
+COSPECTRAL_LIMIT = 400
 #: Graphs up to this size get their full Laplacian spectrum and polynomial in a graph report.
 FULL_SPECTRUM_LIMIT = 400
 
@@ -569,8 +571,20 @@ def collection_report(
                 ),
             )
         )
-    if len(chosen) >= 2:
+    largest = max(s.vertices for s in summaries)
+    if len(chosen) >= 2 and largest <= COSPECTRAL_LIMIT:
         sections.extend(_cospectral_sections(chosen, names))
+    elif len(chosen) >= 2:
+        sections.append(
+            Section(
+                "Cospectral graphs",
+                paragraphs=(
+                    f"Not computed: cospectral classes are reported for collections of graphs "
+                    f"with at most {COSPECTRAL_LIMIT} vertices (the largest here has {largest}); "
+                    "use 'graphinv mates' for larger graphs.",
+                ),
+            )
+        )
     return render_html(f"graphinv report: {title}", sections)
 
 
