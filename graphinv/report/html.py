@@ -801,7 +801,8 @@ def write_report(
             page = graph_report(graphs[0], name=title)
             kind, count = "graph", 1
         else:
-            page = collection_report(graphs, title=title or Path(source).name)
+            default = "standard input" if source == "-" else Path(source).name or source
+            page = collection_report(graphs, title=title or default)
             kind, count = "collection", min(len(graphs), COLLECTION_LIMIT)
     if target.parent != Path(""):
         target.parent.mkdir(parents=True, exist_ok=True)
