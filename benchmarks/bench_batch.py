@@ -219,7 +219,8 @@ def main(argv: Sequence[str] | None = None) -> int:
     parser.add_argument("--repeats", type=int, default=3)
     parser.add_argument("--workers", type=int, default=None)
     parser.add_argument("--skip-end-to-end", action="store_true")
-    args = parser.parse_args(argv)
+    # Called from a runner without arguments: the defaults, not the runner's command line.
+    args = parser.parse_args([] if argv is None else list(argv))
     if shutil.which("nauty-geng") is None:
         print("bench_batch: nauty-geng not found (Debian package nauty); skipped")
         return 0
@@ -306,4 +307,4 @@ def main(argv: Sequence[str] | None = None) -> int:
 
 
 if __name__ == "__main__":
-    sys.exit(main())
+    sys.exit(main(sys.argv[1:]))
