@@ -236,6 +236,7 @@ def run_batch(
     progress: bool | None = None,
     command: str | None = None,
     executor: ChunkExecutor | None = None,
+    commit_seconds: float = COMMIT_SECONDS,
 ) -> BatchResult:
     """Compute invariants for every graph of the inputs into a store, resuming if interrupted.
 
@@ -276,6 +277,9 @@ def run_batch(
         The command line to record in the store's ``runs`` table.
     executor : ChunkExecutor, optional
         Use this executor instead of building one from ``engine`` (it is not closed).
+    commit_seconds : float
+        Commit finished rows at least this often; 0 commits every finished chunk at once.
+        An interruption loses at most this much finished work.
 
     Returns
     -------
@@ -312,6 +316,8 @@ def run_batch(
         raise GraphInvError(f"the number of workers must be a positive integer, not {workers}")
     if max_vertices is not None and max_vertices < 1:
         raise GraphInvError(f"the vertex limit must be a positive integer, not {max_vertices}")
+    if not commit_seconds >= 0:
+        raise GraphInvError(f"the commit interval must be 0 or more seconds, not {commit_seconds}")
     selected = parse_invariants(invariants if invariants is not None else None)
     if "canonical_key" in selected:
         try:
@@ -357,6 +363,7 @@ def run_batch(
                     retry_errors,
                     counts,
                     bar,
+                    commit_seconds,
                 )
             status = "finished"
         except KeyboardInterrupt:
@@ -389,11 +396,12 @@ def _drive(
     retry_errors: bool,
     counts: dict[str, int],
     bar: _Progress,
+    commit_seconds: float,
 ) -> None:
     limit = 2 * executor.workers + 2
     pending: dict[Any, int] = {}
-    # Finished chunks wait here until a commit: one transaction (and one fsync) per second or
-    # per COMMIT_ROWS rows, instead of one per chunk.  Rows not yet committed are simply
+    # Finished chunks wait here until a commit: one transaction (and one fsync) per
+    # commit_seconds or per COMMIT_ROWS rows, instead of one per chunk.  Rows not yet committed are simply
     # computed again by a rerun.
     buffer: list[tuple[int, list[ResultItem]]] = []
     buffered = 0
@@ -416,7 +424,7 @@ def _drive(
             buffer.append((pending.pop(handle), rows))
             buffered += len(rows)
             bar.advance(len(rows))
-        if buffered >= COMMIT_ROWS or time.monotonic() - last_commit >= COMMIT_SECONDS:
+        if buffered >= COMMIT_ROWS or time.monotonic() - last_commit >= commit_seconds:
             commit()
 
     def skip(count: int) -> None:

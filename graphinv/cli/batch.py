@@ -67,6 +67,13 @@ def batch(
     retry_errors: Annotated[
         bool, typer.Option("--retry-errors", help="Compute again graphs stored with an error.")
     ] = False,
+    commit_every: Annotated[
+        float,
+        typer.Option(
+            "--commit-every",
+            help="Seconds between commits (an interruption loses at most this much work).",
+        ),
+    ] = 1.0,
     quiet: Annotated[bool, typer.Option("--quiet", "-q", help="No progress bar.")] = False,
     jsonl: JsonLinesOption = False,
 ) -> None:
@@ -89,6 +96,7 @@ def batch(
         label=label,
         retry_errors=retry_errors,
         progress=False if quiet else None,
+        commit_seconds=commit_every,
         command=" ".join(["graphinv", *sys.argv[1:]]) if sys.argv[1:2] == ["batch"] else None,
     )
     if jsonl:

@@ -33,7 +33,7 @@ def random_graphs(tmp_path, graph6_line):
     rng = random.Random(2026)
     lines = [
         graph6_line(nx.gnp_random_graph(rng.randrange(7, 10), 0.5, seed=rng.randrange(10**9)))
-        for _ in range(2000)
+        for _ in range(4000)
     ]
     path = tmp_path / "random.g6"
     path.write_text("\n".join(lines) + "\n")
@@ -57,6 +57,8 @@ def test_sigkill_midway_then_rerun_gives_exactly_one_row_per_graph(
         "2",
         "--chunk",
         "50",
+        "--commit-every",
+        "0",
         "--quiet",
     ]
     process = subprocess.Popen(command, start_new_session=True, stderr=subprocess.PIPE)
@@ -65,7 +67,7 @@ def test_sigkill_midway_then_rerun_gives_exactly_one_row_per_graph(
         while _count(store) < 200:
             assert process.poll() is None, process.stderr.read().decode() if process.stderr else ""
             assert time.monotonic() < deadline, "the batch stored nothing in two minutes"
-            time.sleep(0.05)
+            time.sleep(0.02)
     finally:
         os.killpg(process.pid, signal.SIGKILL)  # kill -9, workers included
         process.wait()
@@ -77,7 +79,7 @@ def test_sigkill_midway_then_rerun_gives_exactly_one_row_per_graph(
     assert resumed.computed == total - stored_before
 
     clean = tmp_path / "clean.db"
-    run_batch([str(source)], store=clean, workers=1, progress=False)
+    run_batch([str(source)], store=clean, workers=2, progress=False)
     after = stored_rows(store)
     assert [row["position"] for row in after] == list(range(total))
     assert after == stored_rows(clean)
@@ -132,6 +134,8 @@ def test_ctrl_c_keeps_finished_rows_and_records_the_interruption(tmp_path, rando
         "2",
         "--chunk",
         "50",
+        "--commit-every",
+        "0",
         "--quiet",
     ]
     process = subprocess.Popen(command, start_new_session=True, stderr=subprocess.PIPE)
@@ -140,7 +144,7 @@ def test_ctrl_c_keeps_finished_rows_and_records_the_interruption(tmp_path, rando
         while _count(store) < 100:
             assert process.poll() is None
             assert time.monotonic() < deadline, "the batch stored nothing in two minutes"
-            time.sleep(0.05)
+            time.sleep(0.02)
         os.killpg(process.pid, signal.SIGINT)  # Ctrl-C reaches the whole process group
         _, stderr = process.communicate(timeout=60)
     finally:
