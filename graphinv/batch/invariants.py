@@ -220,14 +220,7 @@ RESULT_COLUMNS: tuple[str, ...] = (
     "components",
     "critical_group",
     "group_rank",
-    "spanning_trees",
-    "laplacian_polynomial",
-    "signless_polynomial",
-    "adjacency_polynomial",
-    "adjacency_smith",
-    "signless_smith",
-    "degrees",
-    "canonical_key",
+    *INVARIANTS[1:],
 )
 
 

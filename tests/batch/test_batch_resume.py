@@ -40,37 +40,32 @@ def random_graphs(tmp_path, graph6_line):
     return path, len(lines)
 
 
+def _start_batch(source, store, *, rows: int) -> subprocess.Popen:
+    """Start ``graphinv batch`` in its own process group; return once ``rows`` are stored."""
+    command = [sys.executable, "-m", "graphinv", "batch", str(source), "--store", str(store)]
+    command += ["--workers", "2", "--chunk", "50", "--commit-every", "0", "--quiet"]
+    process = subprocess.Popen(command, start_new_session=True, stderr=subprocess.PIPE)
+    deadline = time.monotonic() + 120
+    try:
+        while _count(store) < rows:
+            assert process.poll() is None, process.stderr.read().decode() if process.stderr else ""
+            assert time.monotonic() < deadline, "the batch stored nothing in two minutes"
+            time.sleep(0.02)
+    except BaseException:
+        os.killpg(process.pid, signal.SIGKILL)
+        process.wait()
+        raise
+    return process
+
+
 def test_sigkill_midway_then_rerun_gives_exactly_one_row_per_graph(
     tmp_path, random_graphs, stored_rows
 ):
     source, total = random_graphs
     store = tmp_path / "killed.db"
-    command = [
-        sys.executable,
-        "-m",
-        "graphinv",
-        "batch",
-        str(source),
-        "--store",
-        str(store),
-        "--workers",
-        "2",
-        "--chunk",
-        "50",
-        "--commit-every",
-        "0",
-        "--quiet",
-    ]
-    process = subprocess.Popen(command, start_new_session=True, stderr=subprocess.PIPE)
-    deadline = time.monotonic() + 120
-    try:
-        while _count(store) < 200:
-            assert process.poll() is None, process.stderr.read().decode() if process.stderr else ""
-            assert time.monotonic() < deadline, "the batch stored nothing in two minutes"
-            time.sleep(0.02)
-    finally:
-        os.killpg(process.pid, signal.SIGKILL)  # kill -9, workers included
-        process.wait()
+    process = _start_batch(source, store, rows=200)
+    os.killpg(process.pid, signal.SIGKILL)  # kill -9, workers included
+    process.wait()
     stored_before = _count(store)
     assert 0 < stored_before < total, "the kill must land midway for this test to mean anything"
 
@@ -122,29 +117,8 @@ def test_changed_input_is_refused(tmp_path):
 def test_ctrl_c_keeps_finished_rows_and_records_the_interruption(tmp_path, random_graphs):
     source, total = random_graphs
     store = tmp_path / "interrupted.db"
-    command = [
-        sys.executable,
-        "-m",
-        "graphinv",
-        "batch",
-        str(source),
-        "--store",
-        str(store),
-        "--workers",
-        "2",
-        "--chunk",
-        "50",
-        "--commit-every",
-        "0",
-        "--quiet",
-    ]
-    process = subprocess.Popen(command, start_new_session=True, stderr=subprocess.PIPE)
-    deadline = time.monotonic() + 120
+    process = _start_batch(source, store, rows=100)
     try:
-        while _count(store) < 100:
-            assert process.poll() is None
-            assert time.monotonic() < deadline, "the batch stored nothing in two minutes"
-            time.sleep(0.02)
         os.killpg(process.pid, signal.SIGINT)  # Ctrl-C reaches the whole process group
         _, stderr = process.communicate(timeout=60)
     finally:
