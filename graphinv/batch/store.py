@@ -56,14 +56,8 @@ __all__ = [
 SCHEMA_VERSION = 1
 
 #: Result columns holding comma-separated integers (returned as lists of decimal strings).
-INTEGER_LIST_COLUMNS = (
-    "critical_group",
-    "laplacian_polynomial",
-    "signless_polynomial",
-    "adjacency_polynomial",
-    "adjacency_smith",
-    "signless_smith",
-    "degrees",
+INTEGER_LIST_COLUMNS = tuple(
+    name for name in INVARIANTS if name not in ("spanning_trees", "canonical_key")
 )
 
 _SCHEMA = """
