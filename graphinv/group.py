@@ -384,6 +384,16 @@ def _reduced_rows_directed(
     return rows
 
 
+def _tree_count(rows: list[dict[int, int]]) -> int:
+    """Determinant of a reduced Laplacian of an undirected graph (symmetric, positive
+    semidefinite, so the product of its diagonal entries bounds the determinant: Hadamard's
+    inequality)."""
+    bound = 1
+    for i, row in enumerate(rows):
+        bound *= row.get(i, 0)
+    return sparse_determinant(rows, bound=bound)
+
+
 def _certify(factors: list[int], count: int, what: str) -> None:
     product = reduce(mul, factors, 1)
     if product != count:
@@ -491,7 +501,7 @@ def _block_group(
     removed = _pick_removed(adjacency, block)
     rows = _reduced_rows(adjacency, block, removed)
     group = sparse_cokernel([dict(r) for r in rows], n_columns=len(rows))
-    trees = sparse_determinant(rows)
+    trees = _tree_count(rows)
     if group.free_rank:
         raise CertificationError("a block's reduced Laplacian came out singular")
     factors = list(group.invariant_factors)
@@ -548,7 +558,7 @@ def spanning_tree_count(G: nx.Graph, *, sink: Hashable | None = None) -> int:
             trees *= adjacency[u][v]
         else:
             rows = _reduced_rows(adjacency, block, _pick_removed(adjacency, block))
-            trees *= sparse_determinant(rows)
+            trees *= _tree_count(rows)
     return trees
 
 

@@ -83,7 +83,7 @@ class Cokernel:
         }
 
 
-def _core_diagonal(rows: list[dict[int, int]], n_columns: int) -> list[int]:
+def _core_diagonal(rows: list[dict[int, int]], n_columns: int, bound: int) -> list[int]:
     """Nonzero Smith invariants (ones included, chain order) of a reduced core."""
     k = min(len(rows), n_columns)
     if k == 0:
@@ -92,13 +92,20 @@ def _core_diagonal(rows: list[dict[int, int]], n_columns: int) -> list[int]:
         return chain_normalize(dense_pivots(dense_rows(rows, n_columns)))
     from graphinv.normalform._modular import modular_core_diagonal
 
-    return modular_core_diagonal(dense_rows(rows, n_columns))
+    return modular_core_diagonal(dense_rows(rows, n_columns), bound=bound)
 
 
 def _reduced_invariants(rows: list[dict[int, int]], n_columns: int) -> tuple[int, list[int]]:
-    """``(number of unit pivots, nonzero invariants of the core)``; ``rows`` is consumed."""
+    """``(number of unit pivots, nonzero invariants of the core)``; ``rows`` is consumed.
+
+    Hadamard's bound of the input bounds the product of its nonzero invariant factors, which is
+    the determinant of a nonsingular core; it is far tighter than the core's own bound.
+    """
+    from graphinv.normalform._modular import hadamard_bound
+
+    bound = hadamard_bound([row for row in rows if row])
     reduction = eliminate_unit_pivots(rows, n_columns)
-    return reduction.pivots, _core_diagonal(reduction.rows, reduction.n_columns)
+    return reduction.pivots, _core_diagonal(reduction.rows, reduction.n_columns, bound)
 
 
 def diagonal_of_rows(rows: list[list[int]], m: int, n: int) -> tuple[int, ...]:

@@ -16,6 +16,7 @@ G. E. Collins, "The calculation of multivariate polynomial resultants", J. ACM 1
 from __future__ import annotations
 
 from collections.abc import Mapping, Sequence
+from numbers import Integral
 from typing import Any
 
 from graphinv.normalform._matrix import InvalidMatrixError, as_int_rows
@@ -60,13 +61,21 @@ def determinant(matrix: Sequence[Sequence[int]] | Any) -> int:
     return int(flint.fmpz_mat(rows).det())
 
 
-def sparse_determinant(rows: Sequence[Mapping[int, int]]) -> int:
+def sparse_determinant(rows: Sequence[Mapping[int, int]], *, bound: int | None = None) -> int:
     """The exact determinant of a square sparse integer matrix given as rows ``{column: value}``.
+
+    Multi-modular: one sparse elimination sweep (minimum-degree pivots) modulo many primes
+    below ``2^31`` at once, the dense remainder by python-flint per prime, then the Chinese
+    remainder theorem.
 
     Parameters
     ----------
     rows : sequence of mappings
-        Row ``i`` maps column indices to nonzero integers; the matrix is ``len(rows)`` square.
+        Row ``i`` maps column indices to integers; the matrix is ``len(rows)`` square.
+    bound : int, optional
+        A known bound on ``|det|``; default Hadamard's bound (product of the row lengths).  For
+        a positive semidefinite matrix the product of the diagonal entries is a tighter valid
+        bound (Hadamard's inequality).
 
     Returns
     -------
@@ -76,16 +85,29 @@ def sparse_determinant(rows: Sequence[Mapping[int, int]]) -> int:
     --------
     >>> sparse_determinant([{0: 2, 1: -1}, {0: -1, 1: 2, 2: -1}, {1: -1, 2: 2}])
     4
+    >>> sparse_determinant([{1: 3}, {0: 2}])
+    -6
 
     References
     ----------
     Collins, J. ACM 18 (1971); Hadamard, Bull. Sci. Math. 17 (1893).
     """
+    from graphinv.normalform._modular import hadamard_bound
+    from graphinv.normalform._modular_elimination import modular_determinant
+
     n = len(rows)
-    dense = [[0] * n for _ in range(n)]
+    checked: list[dict[int, int]] = []
     for i, row in enumerate(rows):
+        clean: dict[int, int] = {}
         for j, v in row.items():
-            if not 0 <= j < n:
-                raise InvalidMatrixError(f"row {i}: column index {j} is outside 0..{n - 1}")
-            dense[i][j] = v
-    return determinant(dense)
+            if not (isinstance(j, Integral) and 0 <= j < n):
+                raise InvalidMatrixError(f"row {i}: column index {j!r} is outside 0..{n - 1}")
+            if isinstance(v, bool) or not isinstance(v, Integral):
+                raise InvalidMatrixError(f"row {i}, column {j}: entry {v!r} is not an integer")
+            if v:
+                clean[int(j)] = int(v)
+        checked.append(clean)
+    limit = hadamard_bound(checked)
+    if bound is not None:
+        limit = min(limit, bound)
+    return modular_determinant(checked, limit)
