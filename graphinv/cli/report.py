@@ -86,6 +86,49 @@ def report(
         typer.echo(f"wrote {written.path} ({written.kind} report, {what}, {written.size} bytes)")
 
 
+@command("draw")
+def draw(
+    source: GraphSource,
+    output: Annotated[
+        str, typer.Option("--output", "-o", help="The image to write: a .png or .svg file.")
+    ] = "graph.png",
+    colour: Annotated[
+        str,
+        typer.Option(
+            "--colour",
+            "-c",
+            help="Colour vertices by: degree, identity (the identity recurrent configuration), "
+            "generator (a recurrent generator of the critical group), none.",
+        ),
+    ] = "degree",
+    sink: Annotated[
+        str | None,
+        typer.Option("--sink", "-s", help="Sink for identity and generator (default: first vertex)."),
+    ] = None,
+    generator: Annotated[
+        int, typer.Option("--generator", "-g", help="Which generator, 1 = the first invariant factor.")
+    ] = 1,
+    input_format: FormatOption = None,
+    jsonl: JsonLinesOption = False,
+) -> None:
+    """Draw one graph, coloured by degree or by a chip configuration."""
+    from graphinv.report.jsonl import to_json_line
+    from graphinv.report.plots import write_drawing
+
+    written = write_drawing(
+        source,
+        output=output,
+        colour=colour,
+        sink=sink,
+        generator=generator,
+        format=input_format,
+    )
+    if jsonl:
+        typer.echo(to_json_line({"drawing": str(written), "colour": colour}))
+    else:
+        typer.echo(f"wrote {written}")
+
+
 @command("demo")
 def demo(
     out: Annotated[str, typer.Option("--out", help="Folder for the report and figures.")] = "out/demo",

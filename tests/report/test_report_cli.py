@@ -75,3 +75,24 @@ def test_figures_command(cli_runner, tmp_path):
     assert (tmp_path / "demo-designs.png").stat().st_size < 200_000
     unknown = cli_runner.invoke(app, ["figures", "--out", str(tmp_path), "--only", "nothing"])
     assert unknown.exit_code == 2 and "unknown figure" in unknown.output
+
+
+def test_draw_command(cli_runner, tmp_path):
+    target = tmp_path / "hub.svg"
+    star = str(default_demo_data() / "star-of-rings.txt")
+    result = cli_runner.invoke(
+        app,
+        ["draw", star, "-o", str(target), "-c", "generator",
+         "-s", "core-a", "-g", "4"],
+    )
+    assert result.exit_code == 0, result.output
+    assert "<svg" in target.read_text(encoding="utf-8")
+    # (Z/4)^4 has four generators (sum over the four 4-cycle blocks; common fact), not five.
+    too_far = cli_runner.invoke(
+        app, ["draw", star, "-o", str(target), "-c", "generator", "-g", "5"]
+    )
+    assert too_far.exit_code == 2 and "4 generator(s)" in too_far.output
+    bad = cli_runner.invoke(app, ["draw", "wheel:5", "-o", str(tmp_path / "w.pdf")])
+    assert bad.exit_code == 2 and ".png or .svg" in bad.output
+    no_sink = cli_runner.invoke(app, ["draw", "wheel:5", "-o", str(target), "-c", "identity", "-s", "x"])
+    assert no_sink.exit_code == 2 and "not a vertex" in no_sink.output
