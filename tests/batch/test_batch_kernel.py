@@ -195,3 +195,31 @@ def test_graph6_lines_round_trip_through_the_kernel(graph6_line):
     G = nx.petersen_graph()
     (row,) = process_chunk([(0, 1, graph6_line(G), None)], KernelSettings())
     assert row[-1] is None and row[6] == "2,10,10,10"
+
+
+@pytest.mark.slow
+@pytest.mark.nauty
+@pytest.mark.parametrize(
+    ("n", "graphs", "connected", "adjacency", "laplacian", "signless"),
+    # graphs: OEIS A000088; connected: OEIS A001349; cospectral counts: Haemers & Spence,
+    # European J. Combin. 25 (2004), Table 1 (A column also OEIS A006608; L and Q columns
+    # from memory of that table)
+    [(8, 12346, 11117, 1722, 1767, 1201), (9, 274668, 261080, 51039, 42595, 19001)],
+)
+def test_all_graphs_from_geng(tmp_path, n, graphs, connected, adjacency, laplacian, signless):
+    import shutil
+    import subprocess
+
+    from graphinv.batch.queries import count_cospectral, survey_store
+
+    if shutil.which("nauty-geng") is None:
+        pytest.skip("nauty-geng is not installed (Debian package nauty)")
+    source = tmp_path / f"all{n}.g6"
+    with source.open("w") as handle:
+        subprocess.run(["nauty-geng", "-q", str(n)], check=True, stdout=handle)
+    store = tmp_path / f"all{n}.db"
+    result = run_batch([str(source)], store=store, progress=False)
+    assert (result.computed, result.failed) == (graphs, 0)
+    assert survey_store(store).connected == connected
+    counts = {m: count_cospectral(store, m).graphs for m in ("adjacency", "laplacian", "signless")}
+    assert counts == {"adjacency": adjacency, "laplacian": laplacian, "signless": signless}
