@@ -250,7 +250,8 @@ def run_batch(
         computes only graphs not yet finished.
     invariants : str or sequence of str, optional
         A selection from :data:`graphinv.batch.invariants.INVARIANTS` (comma-separated text
-        allowed); default all of them.
+        allowed); default all of them (without the canonical key, and with a warning, when
+        pynauty is not installed).
     workers : int, optional
         Local worker processes (default all cores; 1 computes in this process), or the number
         of workers of a local Dask cluster.
@@ -323,10 +324,20 @@ def run_batch(
         try:
             import pynauty  # noqa: F401
         except ImportError:
-            raise GraphInvError(
-                "the canonical key needs pynauty (pip install pynauty); leave canonical-key out "
-                "of --only to run without it"
-            ) from None
+            if invariants is not None:
+                raise GraphInvError(
+                    "the canonical key needs pynauty (pip install pynauty); leave "
+                    "canonical-key out of --only to run without it"
+                ) from None
+            # The default set goes on without keys; queries then decide isomorphism inside
+            # each polynomial class with networkx instead.
+            import warnings
+
+            warnings.warn(
+                "pynauty is not installed: no canonical keys stored (pip install pynauty)",
+                stacklevel=2,
+            )
+            selected = tuple(name for name in selected if name != "canonical_key")
     sources = resolve_inputs(inputs, format=format, label=label)
     started = time.perf_counter()
     own_executor = executor is None

@@ -223,3 +223,18 @@ def test_all_graphs_from_geng(tmp_path, n, graphs, connected, adjacency, laplaci
     assert survey_store(store).connected == connected
     counts = {m: count_cospectral(store, m).graphs for m in ("adjacency", "laplacian", "signless")}
     assert counts == {"adjacency": adjacency, "laplacian": laplacian, "signless": signless}
+
+
+def test_without_pynauty_the_default_set_drops_only_the_canonical_key(
+    tmp_path, monkeypatch, stored_rows
+):
+    import sys
+
+    monkeypatch.setitem(sys.modules, "pynauty", None)
+    with pytest.warns(UserWarning, match="pynauty is not installed"):
+        run_batch(["cycle:4..5"], store=tmp_path / "plain.db", workers=1)
+    rows = stored_rows(tmp_path / "plain.db")
+    # K(C_n) = Z_n (common fact)
+    assert [(r["critical_group"], r["canonical_key"]) for r in rows] == [("4", None), ("5", None)]
+    with pytest.raises(GraphInvError, match="the canonical key needs pynauty"):
+        run_batch(["cycle:4"], store=tmp_path / "k.db", workers=1, invariants="canonical-key")
