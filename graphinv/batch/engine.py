@@ -509,4 +509,8 @@ class _Progress:
 
     def __exit__(self, *exc: object) -> None:
         if self._progress is not None:
+            if exc[0] is None:
+                # The line count behind the total includes blank and comment lines.
+                done = self._progress.tasks[0].completed
+                self._progress.update(self._task, total=done)
             self._progress.__exit__(None, None, None)
