@@ -193,6 +193,47 @@ def _reduce_rational(S: Any, modulus: int) -> list[list[int]]:
     return out
 
 
+def _local_valuations_word(rows: list[list[int]], p: int, precision: int) -> list[int]:
+    """Local Smith form over ``Z / p^precision`` with ``p^precision < 2^31``, vectorized.
+
+    Each step takes an entry of least valuation as pivot (it divides every other entry in
+    the local ring), clears its column by row operations, and drops its row and column (the
+    column operations that would clear the row touch nothing else).  Returns the valuation of
+    every invariant factor, ``precision`` for those that vanish modulo ``p^precision``.
+    """
+    import numpy as np
+
+    modulus = p**precision
+    A = np.array([[x % modulus for x in row] for row in rows], dtype=np.int64)
+    k = A.shape[0]
+    found: list[int] = []
+    level = 0
+    power = 1
+    for step in range(k):
+        sub = A[step:, step:]
+        while level < precision:
+            mask = sub % (power * p) != 0
+            if mask.any():
+                break
+            level += 1
+            power *= p
+        if level >= precision:
+            return found + [precision] * (k - step)
+        flat = int(np.argmax(mask))
+        i, j = divmod(flat, mask.shape[1])
+        if i:
+            A[[step, step + i]] = A[[step + i, step]]
+        if j:
+            A[:, [step, step + j]] = A[:, [step + j, step]]
+        unit_inverse = pow(int(A[step, step]) // power, -1, modulus)
+        factors = (A[step + 1 :, step] // power) * unit_inverse % modulus
+        A[step + 1 :, step:] = (
+            A[step + 1 :, step:] - factors[:, None] * A[step, step:][None, :] % modulus
+        ) % modulus
+        found.append(level)
+    return found
+
+
 def _local_valuations(S: Any, p: int, precision: int) -> list[int]:
     """Valuations at ``p`` of the invariant factors of the ``fmpz_mat`` ``S``, known modulo
     ``p^precision`` (a factor that vanishes modulo ``p^precision`` counts as ``precision``).
@@ -285,6 +326,20 @@ def modular_core_diagonal(
         else:
             hard.append((t, p, e))
     hard.sort(reverse=True)
+    for item in list(hard):
+        t, p, e = item
+        precision = min(e + 1, int(math.log(2**31 - 1, p)))
+        if precision < 2:
+            continue
+        local = sorted((v for v in _local_valuations_word(rows, p, precision) if v), reverse=True)
+        saturated = sum(1 for v in local if v >= precision)
+        if len(local) == t and saturated <= 1:
+            # Only the largest can be cut off by the precision; the total fixes it.
+            local[0] = e - sum(local[1:])
+            if local[0] < (local[1] if len(local) > 1 else 1) or (saturated and local[0] < precision):
+                raise _InternalCheckError(f"local Smith form at {p} does not match the determinant")
+            valuations[p] = local
+            hard.remove(item)
     while hard:
         t, p, e = hard.pop(0)
         C11, S = _schur_complement(C, p, t)

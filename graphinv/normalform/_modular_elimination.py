@@ -90,6 +90,15 @@ def modular_determinant(rows: list[dict[int, int]], bound: int) -> int:
     n = len(rows)
     if n == 0:
         return 1
+    if n <= 64 or sum(len(row) for row in rows) >= _DENSE_MIN_FILL * n * n:
+        # Dense from the start: python-flint's exact determinant over the integers.
+        import flint
+
+        dense = [[0] * n for _ in range(n)]
+        for i, row in enumerate(rows):
+            for j, v in row.items():
+                dense[i][j] = v
+        return int(flint.fmpz_mat(dense).det())
     needed_bits = (2 * bound + 1).bit_length() + 1
     count = needed_bits // 30 + 3
     while True:

@@ -100,9 +100,11 @@ def sparse_determinant(rows: Sequence[Mapping[int, int]], *, bound: int | None =
     for i, row in enumerate(rows):
         clean: dict[int, int] = {}
         for j, v in row.items():
-            if not (isinstance(j, Integral) and 0 <= j < n):
+            if type(j) is not int and not isinstance(j, Integral):
+                raise InvalidMatrixError(f"row {i}: column index {j!r} is not an integer")
+            if not 0 <= j < n:
                 raise InvalidMatrixError(f"row {i}: column index {j!r} is outside 0..{n - 1}")
-            if isinstance(v, bool) or not isinstance(v, Integral):
+            if type(v) is not int and (isinstance(v, bool) or not isinstance(v, Integral)):
                 raise InvalidMatrixError(f"row {i}, column {j}: entry {v!r} is not an integer")
             if v:
                 clean[int(j)] = int(v)
