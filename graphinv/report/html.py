@@ -25,6 +25,7 @@ import datetime as _dt
 import html
 import itertools
 import os
+import re
 from collections.abc import Iterable, Sequence
 from dataclasses import dataclass, field
 from pathlib import Path
@@ -518,6 +519,7 @@ def collection_report(
     Haemers & Spence, European J. Combin. 25 (2004); Temperley 1974 (growth).
     """
     from graphinv.report.growth import family_growth
+    from graphinv.report.limits import grid_growth_limit
     from graphinv.report.plots import growth_figure, rank_distribution_figure
     from graphinv.report.summary import summarize
 
@@ -554,13 +556,25 @@ def collection_report(
     ]
     sizes = {s.vertices for s in summaries}
     if len(sizes) >= 3 and all(s.spanning_trees > 0 for s in summaries):
-        fit = family_growth(chosen, family=title)
+        # Square grids from the family spec (names "grid:KxK") have a known limit.
+        squares = all(re.fullmatch(r"grid:(\d+)x\1", name) for name in names)
+        fit = family_growth(
+            chosen,
+            family=title,
+            limit=grid_growth_limit() if squares else None,
+            limit_source="exp(4G/π), G Catalan's constant (Temperley 1974)" if squares else None,
+        )
+        limit_text = (
+            f" The square-grid limit is exp(4G/π) = {fit.limit:.6f} (Temperley 1974)."
+            if fit.limit is not None
+            else ""
+        )
         sections.append(
             Section(
                 "Spanning-tree growth",
                 paragraphs=(
                     f"Fitted per-vertex growth constant exp(a) = {fit.per_vertex:.6f} from "
-                    "log τ ≈ a N + b √N + c log N + d (least squares, floats).",
+                    f"log τ ≈ a N + b √N + c log N + d (least squares, floats).{limit_text}",
                 ),
                 figures=(
                     embed_figure(

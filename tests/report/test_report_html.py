@@ -112,6 +112,9 @@ def test_write_report_dispatch(tmp_path):
     many = write_report("cycle:3..6", output=tmp_path / "sub" / "many.html")
     assert (one.kind, one.graphs) == ("graph", 1)
     assert (many.kind, many.graphs) == ("collection", 4)
+    grids = write_report("grid:2..6", output=tmp_path / "grids.html")
+    # Square grids: the report quotes Temperley's limit exp(4G/π) ≈ 3.209912 (Temperley 1974).
+    assert "exp(4G/π) = 3.209912" in grids.path.read_text(encoding="utf-8")
     assert many.path.read_text(encoding="utf-8").startswith("<!DOCTYPE html>")
 
 
