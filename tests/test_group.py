@@ -435,3 +435,49 @@ def test_bad_input():
             spanning_tree_count(G)
     with pytest.raises(InvalidGraphError):
         critical_group([(0, 1)])  # type: ignore[arg-type]
+
+
+# ---------------------------------------------------------------------------------------------
+# Command line
+
+
+def test_cli_group_and_trees(cli_runner):
+    from graphinv.cli import app
+
+    result = cli_runner.invoke(app, ["group", "wheel:4"])
+    assert result.exit_code == 0, result.output
+    # W4: Z3 + Z15 (Biggs 1999, memory)
+    assert "Z/3 ⊕ Z/15" in result.output and "45 spanning trees" in result.output
+    result = cli_runner.invoke(app, ["group", "wheel:3..4", "--jsonl"])
+    lines = [json.loads(line) for line in result.output.splitlines()]
+    assert [r["invariant_factors"] for r in lines] == [["4", "4"], ["3", "15"]]
+    result = cli_runner.invoke(app, ["trees", "wheel:5", "--approx"])
+    assert result.exit_code == 0 and "121" in result.output and "approximate" in result.output
+
+
+def test_cli_unknown_sink(cli_runner):
+    from graphinv.cli import app
+
+    result = cli_runner.invoke(app, ["group", "cycle:5", "--sink", "99"])
+    assert result.exit_code == 2 and "not a vertex" in result.output
+    result = cli_runner.invoke(app, ["trees", "cycle:5", "--sink", "3"])
+    assert result.exit_code == 0 and result.output.strip().endswith(": 5")
+
+
+def test_cli_normal_form(cli_runner, tmp_path):
+    from graphinv.cli import app
+
+    path = tmp_path / "m.txt"
+    path.write_text("# a 3 x 3 example\n2 4 4\n-6 6 12\n10 -4 -16\n")
+    result = cli_runner.invoke(app, ["normal-form", str(path), "--transforms", "--hermite"])
+    assert result.exit_code == 0, result.output
+    # diagonal (2, 6, 12): reference SymPy invariant_factors
+    assert "Smith diagonal: 2 6 12" in result.output and "Hermite form" in result.output
+    bad = tmp_path / "bad.txt"
+    bad.write_text("1 2\n3 x\n")
+    result = cli_runner.invoke(app, ["normal-form", str(bad)])
+    assert result.exit_code == 2 and "line 2" in result.output and "'x'" in result.output
+    ragged = tmp_path / "ragged.txt"
+    ragged.write_text("1 2\n3\n")
+    result = cli_runner.invoke(app, ["normal-form", str(ragged)])
+    assert result.exit_code == 2 and "line 2" in result.output

@@ -7,6 +7,7 @@ from __future__ import annotations
 
 from graphinv.cli import batch as _batch  # noqa: F401  (registers commands)
 from graphinv.cli import chips as _chips  # noqa: F401  (registers commands)
+from graphinv.cli import groups as _groups  # noqa: F401  (registers commands)
 from graphinv.cli import info as _info  # noqa: F401  (registers commands)
 from graphinv.cli import load as _load  # noqa: F401  (registers commands)
 from graphinv.cli import report as _report  # noqa: F401  (registers commands)
