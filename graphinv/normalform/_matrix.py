@@ -64,7 +64,9 @@ def as_int_rows(matrix: Sequence[Sequence[Any]] | Any) -> tuple[list[list[int]],
             raise InvalidMatrixError(
                 f"matrix row {i} must be a sequence of integers, not {type(row).__name__}"
             )
-        converted = [_as_int(value, i, j) for j, value in enumerate(row)]
+        converted = list(row)
+        if not all(type(value) is int for value in converted):
+            converted = [_as_int(value, i, j) for j, value in enumerate(converted)]
         if width < 0:
             width = len(converted)
         elif len(converted) != width:

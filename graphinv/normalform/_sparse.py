@@ -145,3 +145,51 @@ def eliminate_unit_pivots(rows: list[dict[int, int]], n_columns: int) -> UnitRed
         if not dead_row[i] and rows[i]
     ]
     return UnitReduction(pivots, left, len(renumber), n_rows - pivots)
+
+
+def small_pivots(A: list[list[int]]) -> tuple[int, list[int]]:
+    """Unit-pivot elimination for tiny matrices (no heap, no column index), then the classical
+    dense elimination on what is left.
+
+    Returns ``(number of unit pivots, absolute values of the other pivots)``: the rank is the
+    total count, and the gcd/lcm normalization of the pivots is the Smith diagonal.
+
+    Examples
+    --------
+    >>> small_pivots([[2, -1, -1], [-1, 2, -1], [-1, -1, 2]])
+    (1, [3])
+    """
+    from graphinv.normalform._dense import dense_pivots
+
+    rows = [r for r in ({j: v for j, v in enumerate(line) if v} for line in A) if r]
+    units = 0
+    while rows:
+        chosen = -1
+        column = -1
+        shortest = 1 << 30
+        for index, row in enumerate(rows):
+            if len(row) < shortest:
+                for j, v in row.items():
+                    if v == 1 or v == -1:
+                        chosen, column, shortest = index, j, len(row)
+                        break
+        if chosen < 0:
+            break
+        pivot_row = rows.pop(chosen)
+        a = pivot_row[column]
+        units += 1
+        for row in rows:
+            c = row.get(column)
+            if c:
+                factor = c * a
+                for j, v in pivot_row.items():
+                    new = row.get(j, 0) - factor * v
+                    if new:
+                        row[j] = new
+                    else:
+                        del row[j]
+        rows = [row for row in rows if row]
+    if not rows:
+        return units, []
+    columns = sorted({j for row in rows for j in row})
+    return units, dense_pivots([[row.get(j, 0) for j in columns] for row in rows])

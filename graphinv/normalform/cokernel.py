@@ -40,7 +40,12 @@ from typing import Any
 
 from graphinv.normalform._dense import dense_pivots
 from graphinv.normalform._matrix import InvalidMatrixError, as_int_rows, chain_normalize
-from graphinv.normalform._sparse import dense_rows, eliminate_unit_pivots, sparse_rows
+from graphinv.normalform._sparse import (
+    dense_rows,
+    eliminate_unit_pivots,
+    small_pivots,
+    sparse_rows,
+)
 
 __all__ = ["Cokernel", "cokernel", "diagonal_of_rows", "sparse_cokernel"]
 
@@ -108,9 +113,22 @@ def _reduced_invariants(rows: list[dict[int, int]], n_columns: int) -> tuple[int
     return reduction.pivots, _core_diagonal(reduction.rows, reduction.n_columns, bound)
 
 
+# Matrices with at most this many entries skip the sparse bookkeeping (the batch engine calls
+# the core hundreds of thousands of times on graphs of about ten vertices).
+TINY = 400
+
+
+def _tiny_invariants(rows: list[list[int]]) -> tuple[int, list[int]]:
+    units, pivots = small_pivots(rows)
+    return units, chain_normalize(pivots)
+
+
 def diagonal_of_rows(rows: list[list[int]], m: int, n: int) -> tuple[int, ...]:
     """The Smith diagonal of checked dense rows (see :func:`smith_diagonal`)."""
-    pivots, core = _reduced_invariants(sparse_rows(rows), n)
+    if m * n <= TINY:
+        pivots, core = _tiny_invariants(rows)
+    else:
+        pivots, core = _reduced_invariants(sparse_rows(rows), n)
     nonzero = [1] * pivots + core
     return tuple(nonzero + [0] * (min(m, n) - len(nonzero)))
 
@@ -184,5 +202,8 @@ def cokernel(matrix: Sequence[Sequence[int]] | Any) -> Cokernel:
     ----------
     Dumas, Saunders, Villard, J. Symbolic Comput. 32 (2001).
     """
-    rows, _, n = as_int_rows(matrix)
+    rows, m, n = as_int_rows(matrix)
+    if m * n <= TINY:
+        units, core = _tiny_invariants(rows)
+        return Cokernel(tuple(d for d in core if d > 1), n - units - len(core))
     return sparse_cokernel(sparse_rows(rows), n_columns=n)
