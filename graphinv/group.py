@@ -593,32 +593,42 @@ def log_spanning_tree_count(G: nx.Graph, *, sink: Hashable | None = None) -> Log
     """
     import numpy as np
     import scipy.sparse
+    import scipy.sparse.csgraph
     import scipy.sparse.linalg
 
     require_nonempty(G)
     n = G.number_of_nodes()
-    if G.is_directed():
+    directed = G.is_directed()
+    if directed:
         _require_sink(G, sink)
-        rows, _ = _directed_rows(G, sink)
+        removed = sink
+    elif sink is not None and sink not in G:
+        raise InvalidGraphError(f"the sink {sink!r} is not a vertex of the graph")
     else:
-        adjacency, _ = _adjacency(G)
-        H = nx.Graph()
-        H.add_nodes_from(G)
-        H.add_edges_from((u, v) for u, nbrs in adjacency.items() for v in nbrs)
-        if not nx.is_connected(H):
+        removed = sink if sink is not None else next(iter(G))
+    index = {v: i for i, v in enumerate(G)}
+    triples = np.array(
+        [(index[u], index[v], m) for u, v, m in weighted_edges(G)], dtype=np.float64
+    ).reshape(-1, 3)
+    tails = triples[:, 0].astype(np.int64)
+    heads = triples[:, 1].astype(np.int64)
+    weights = triples[:, 2]
+    if not directed:
+        tails, heads = np.concatenate([tails, heads]), np.concatenate([heads, tails])
+        weights = np.concatenate([weights, weights])
+        components, _ = scipy.sparse.csgraph.connected_components(
+            scipy.sparse.coo_array((weights, (tails, heads)), shape=(n, n)), directed=False
+        )
+        if components > 1:
             return LogTreeCount(float("-inf"), 0.0, n)
-        removed = sink if sink is not None and sink in G else next(iter(G))
-        rows = _reduced_rows(adjacency, list(G), removed)
-    size = len(rows)
+    A = scipy.sparse.coo_array((weights, (tails, heads)), shape=(n, n)).tocsr()
+    degree = np.asarray(A.sum(axis=1)).ravel()
+    keep = np.ones(n, dtype=bool)
+    keep[index[removed]] = False
+    L = (scipy.sparse.diags_array(degree) - A).tocsr()[keep][:, keep].tocsc()
+    size = L.shape[0]
     if size == 0:
         return LogTreeCount(0.0, 0.0, n)
-    counts = np.fromiter((len(r) for r in rows), dtype=np.int64, count=size)
-    row_index = np.repeat(np.arange(size, dtype=np.int64), counts)
-    column_index = np.fromiter((j for r in rows for j in r), dtype=np.int64, count=int(counts.sum()))
-    values = np.fromiter(
-        (float(v) for r in rows for v in r.values()), dtype=np.float64, count=int(counts.sum())
-    )
-    L = scipy.sparse.csc_matrix((values, (row_index, column_index)), shape=(size, size))
     symmetric = not G.is_directed()
     try:
         lu = scipy.sparse.linalg.splu(
