@@ -39,7 +39,19 @@ def _primes31(count: int) -> list[int]:
 
 
 def _inverse(a: Any, primes: Any) -> Any:
-    """Elementwise ``a^(p-2) mod p`` (Fermat), ``a`` nonzero modulo each ``p``."""
+    """Elementwise inverse of ``a`` modulo ``primes`` (``a`` nonzero modulo each)."""
+    import numpy as np
+
+    if len(primes) <= 256:
+        return np.array(
+            [pow(x, -1, p) for x, p in zip(a.tolist(), primes.tolist(), strict=True)],
+            dtype=np.int64,
+        )
+    return _fermat_inverse(a, primes)
+
+
+def _fermat_inverse(a: Any, primes: Any) -> Any:
+    """Elementwise ``a^(p-2) mod p`` (Fermat), vectorized."""
     import numpy as np
 
     result = np.ones_like(a)
