@@ -329,6 +329,8 @@ def modular_core_diagonal(
     for item in list(hard):
         t, p, e = item
         precision = min(e + 1, int(math.log(2**31 - 1, p)))
+        while precision > 0 and p**precision >= 2**31:  # guard against rounding in log
+            precision -= 1
         if precision < 2:
             continue
         local = sorted((v for v in _local_valuations_word(rows, p, precision) if v), reverse=True)
