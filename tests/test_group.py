@@ -481,3 +481,20 @@ def test_cli_normal_form(cli_runner, tmp_path):
     ragged.write_text("1 2\n3\n")
     result = cli_runner.invoke(app, ["normal-form", str(ragged)])
     assert result.exit_code == 2 and "line 2" in result.output
+
+
+@pytest.mark.slow
+@pytest.mark.parametrize(
+    "build",
+    [
+        lambda: nx.grid_2d_graph(14, 14),
+        lambda: nx.hypercube_graph(7),
+        lambda: nx.random_regular_graph(3, 200, seed=7),
+        lambda: nx.complete_graph(60),
+    ],
+)
+def test_larger_graphs_agree_with_flint(build):
+    # Reference: python-flint fmpz_mat.snf on the full Laplacian (slow for the reference).
+    G = build()
+    K = critical_group(G)
+    assert (K.invariant_factors, K.free_rank) == reference_cokernel(G, "flint")
