@@ -487,16 +487,13 @@ def format_group(factors: Sequence[int], free_rank: int = 0) -> str:
     Examples
     --------
     >>> format_group((2, 10), 1)
-    'Z2 ⊕ Z10 ⊕ Z'
+    'Z/2 ⊕ Z/10 ⊕ Z'
     >>> format_group((), 0)
     '0'
     """
-    parts = [f"Z{d}" for d in factors if d != 1]
-    if free_rank == 1:
-        parts.append("Z")
-    elif free_rank > 1:
-        parts.append(f"Z^{free_rank}")
-    return " ⊕ ".join(parts) if parts else "0"
+    from graphinv.notation import abelian_group_text
+
+    return abelian_group_text(factors, free_rank)
 
 
 def _invariant_text(name: str, value: Any) -> str:

@@ -47,7 +47,7 @@ def test_identity_coords_order_and_recurrence(cli_runner):
     # K4: L~ (1,1,1) = (1,1,1), so c_max = (2,2,2) is equivalent to 0 and is the identity
     assert json.loads(result.output)["chips"] == {"1": 2, "2": 2, "3": 2}
     result = cli_runner.invoke(app, ["chips", "coords", "complete:4", "--drop", "1=1"])
-    assert result.exit_code == 0 and "Z/4 + Z/4" in result.output
+    assert result.exit_code == 0 and "Z/4 ⊕ Z/4" in result.output
     result = cli_runner.invoke(app, ["chips", "order", "cycle:6", "--drop", "3=1"])
     assert result.output.strip() == "2"
     result = cli_runner.invoke(app, ["chips", "is-recurrent", "cycle:4", "--drop", "1=1"])
@@ -81,7 +81,7 @@ def test_bad_input_is_one_line(cli_runner, tmp_path):
 def test_generators_and_recurrents(cli_runner):
     result = cli_runner.invoke(app, ["chips", "generators", "wheel:4"])
     # Biggs 1999 (memory): W4 has critical group Z/3 + Z/15
-    assert result.exit_code == 0 and "Z/3 + Z/15; order 45" in result.output
+    assert result.exit_code == 0 and "Z/3 ⊕ Z/15; order 45" in result.output
     result = cli_runner.invoke(app, ["chips", "recurrents", "wheel:4"])
     # OEIS A004146: the wheel with 4 spokes has 45 spanning trees
     assert result.exit_code == 0 and len(result.output.splitlines()) == 45

@@ -8,6 +8,7 @@ from typing import Annotated
 import typer
 
 from graphinv.cli._app import FormatOption, JsonLinesOption, command
+from graphinv.notation import abelian_group_text
 
 _ENGINE_HELP = "local (a process pool on this machine) or dask (a Dask cluster)."
 
@@ -156,9 +157,10 @@ def survey(
         assert result.cyclic is not None
         typer.echo(f"connected {result.connected} with a critical group")
         typer.echo(f"ranks     {ranks}  (number of invariant factors > 1)")
-        typer.echo(f"cyclic    {float(result.cyclic):.4f} ({result.cyclic})")
+        cyclic_count = int(result.cyclic * result.connected)
+        typer.echo(f"cyclic    {float(result.cyclic):.4f} ({cyclic_count} of {result.connected})")
         for top in result.largest:
-            group = " + ".join(f"Z{d}" for d in top["critical_group"]) or "trivial"
+            group = abelian_group_text(int(d) for d in top["critical_group"])
             typer.echo(f"largest   order {top['order']}: {group}  [{top['graph']}]")
     for count in result.cospectral:
         typer.echo(

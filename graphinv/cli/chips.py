@@ -15,6 +15,7 @@ from typing import TYPE_CHECKING, Annotated, Any
 import typer
 
 from graphinv.cli._app import FormatOption, GraphSource, JsonLinesOption, app, command
+from graphinv.notation import abelian_group_text
 
 if TYPE_CHECKING:
     from graphinv.chipfiring import ChipGraph, Configuration
@@ -217,7 +218,7 @@ def coords_command(
     if jsonl:
         _emit({"invariant_factors": list(group.invariant_factors), "coordinates": list(values)})
         return
-    factors = " + ".join(f"Z/{d}" for d in group.invariant_factors) or "0"
+    factors = abelian_group_text(group.invariant_factors)
     typer.echo(f"group: {factors}")
     typer.echo(f"coordinates: ({', '.join(str(v) for v in values)})")
 
@@ -259,7 +260,7 @@ def generators_command(
     if jsonl:
         _emit(group.to_record())
         return
-    factors = " + ".join(f"Z/{d}" for d in group.invariant_factors) or "0 (trivial group)"
+    factors = abelian_group_text(group.invariant_factors)
     typer.echo(f"group: {factors}; order {group.order}")
     for d, generator in zip(group.invariant_factors, group.generators, strict=True):
         _print_configuration(generator, f"generator of order {d}:")
