@@ -123,8 +123,22 @@ def _tiny_invariants(rows: list[list[int]]) -> tuple[int, list[int]]:
     return units, chain_normalize(pivots)
 
 
+def _flint_diagonal(rows: list[list[int]], m: int, n: int) -> tuple[int, ...]:
+    """Smith diagonal of a tiny nonempty matrix through FLINT's exact ``fmpz_mat_snf``.
+
+    On matrices of about ten rows FLINT's compiled elimination is several times quicker than
+    any Python loop; results are exact integers either way (and tested against each other).
+    """
+    import flint
+
+    S = flint.fmpz_mat(rows).snf()
+    return tuple(abs(int(S[i, i])) for i in range(min(m, n)))
+
+
 def diagonal_of_rows(rows: list[list[int]], m: int, n: int) -> tuple[int, ...]:
     """The Smith diagonal of checked dense rows (see :func:`smith_diagonal`)."""
+    if m * n <= TINY and m and n:
+        return _flint_diagonal(rows, m, n)
     if m * n <= TINY:
         pivots, core = _tiny_invariants(rows)
     else:
@@ -203,6 +217,10 @@ def cokernel(matrix: Sequence[Sequence[int]] | Any) -> Cokernel:
     Dumas, Saunders, Villard, J. Symbolic Comput. 32 (2001).
     """
     rows, m, n = as_int_rows(matrix)
+    if m * n <= TINY and m and n:
+        diagonal = _flint_diagonal(rows, m, n)
+        rank = sum(1 for d in diagonal if d)
+        return Cokernel(tuple(d for d in diagonal if d > 1), n - rank)
     if m * n <= TINY:
         units, core = _tiny_invariants(rows)
         return Cokernel(tuple(d for d in core if d > 1), n - units - len(core))

@@ -20,7 +20,7 @@ def test_batch_survey_export(cli_runner, tmp_path):
     survey = cli_runner.invoke(app, ["survey", store])
     assert survey.exit_code == 0, survey.output
     # W_6: Z8 + Z40, order 320 (Biggs 1999, memory; OEIS A004146 for the order)
-    assert "largest   order 320: Z8 + Z40  [wheel:6]" in survey.output
+    assert "largest   order 320: Z/8 ⊕ Z/40  [wheel:6]" in survey.output
     assert "ranks     2: 4, 3: 1" in survey.output
     record = json.loads(cli_runner.invoke(app, ["survey", store, "--jsonl"]).output)
     assert record["cyclic_fraction"] == "0" and record["graphs"] == 5
