@@ -14,7 +14,14 @@ from typing import Any
 
 from graphinv.errors import GraphInvError
 
-__all__ = ["IntMatrix", "InvalidMatrixError", "as_int_rows", "chain_normalize", "identity"]
+__all__ = [
+    "IntMatrix",
+    "InvalidMatrixError",
+    "as_int_rows",
+    "as_sparse_int_rows",
+    "chain_normalize",
+    "identity",
+]
 
 IntMatrix = tuple[tuple[int, ...], ...]
 
@@ -75,6 +82,36 @@ def as_int_rows(matrix: Sequence[Sequence[Any]] | Any) -> tuple[list[list[int]],
             )
         rows.append(converted)
     return rows, len(rows), max(width, 0)
+
+
+def as_sparse_int_rows(rows: Sequence[Any], n_columns: int) -> list[dict[int, int]]:
+    """Check sparse rows ``{column: value}`` and return them as plain ints, zeros dropped.
+
+    Examples
+    --------
+    >>> as_sparse_int_rows([{0: 2, 1: 0}, {1: -1}], 2)
+    [{0: 2}, {1: -1}]
+    >>> as_sparse_int_rows([{3: 1}], 2)
+    Traceback (most recent call last):
+    ...
+    graphinv.normalform._matrix.InvalidMatrixError: row 0: column index 3 is outside 0..1
+    """
+    checked: list[dict[int, int]] = []
+    for i, row in enumerate(rows):
+        clean: dict[int, int] = {}
+        for j, v in row.items():
+            if type(j) is not int and not isinstance(j, Integral):
+                raise InvalidMatrixError(f"row {i}: column index {j!r} is not an integer")
+            if not 0 <= int(j) < n_columns:
+                raise InvalidMatrixError(
+                    f"row {i}: column index {j!r} is outside 0..{n_columns - 1}"
+                )
+            if type(v) is not int and (isinstance(v, bool) or not isinstance(v, Integral)):
+                raise InvalidMatrixError(f"row {i}, column {j}: entry {v!r} is not an integer")
+            if v:
+                clean[int(j)] = int(v)
+        checked.append(clean)
+    return checked
 
 
 def identity(n: int) -> list[list[int]]:

@@ -34,12 +34,15 @@ from __future__ import annotations
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 from functools import reduce
-from numbers import Integral
 from operator import mul
 from typing import Any
 
 from graphinv.normalform._dense import dense_pivots
-from graphinv.normalform._matrix import InvalidMatrixError, as_int_rows, chain_normalize
+from graphinv.normalform._matrix import (
+    as_int_rows,
+    as_sparse_int_rows,
+    chain_normalize,
+)
 from graphinv.normalform._sparse import (
     dense_rows,
     eliminate_unit_pivots,
@@ -173,21 +176,7 @@ def sparse_cokernel(rows: Sequence[Mapping[int, int]], *, n_columns: int) -> Cok
     ----------
     Dumas, Saunders, Villard, J. Symbolic Comput. 32 (2001).
     """
-    checked: list[dict[int, int]] = []
-    for i, row in enumerate(rows):
-        clean: dict[int, int] = {}
-        for j, v in row.items():
-            if type(j) is not int and not isinstance(j, Integral):
-                raise InvalidMatrixError(f"row {i}: column index {j!r} is not an integer")
-            if not 0 <= j < n_columns:
-                raise InvalidMatrixError(
-                    f"row {i}: column index {j!r} is outside 0..{n_columns - 1}"
-                )
-            if type(v) is not int and (isinstance(v, bool) or not isinstance(v, Integral)):
-                raise InvalidMatrixError(f"row {i}, column {j}: entry {v!r} is not an integer")
-            if v:
-                clean[int(j)] = int(v)
-        checked.append(clean)
+    checked = as_sparse_int_rows(rows, n_columns)
     pivots, core = _reduced_invariants(checked, n_columns)
     rank = pivots + len(core)
     return Cokernel(tuple(d for d in core if d > 1), n_columns - rank)

@@ -16,10 +16,9 @@ G. E. Collins, "The calculation of multivariate polynomial resultants", J. ACM 1
 from __future__ import annotations
 
 from collections.abc import Mapping, Sequence
-from numbers import Integral
 from typing import Any
 
-from graphinv.normalform._matrix import InvalidMatrixError, as_int_rows
+from graphinv.normalform._matrix import InvalidMatrixError, as_int_rows, as_sparse_int_rows
 
 __all__ = ["determinant"]
 
@@ -95,20 +94,7 @@ def sparse_determinant(rows: Sequence[Mapping[int, int]], *, bound: int | None =
     from graphinv.normalform._modular import hadamard_bound
     from graphinv.normalform._modular_elimination import modular_determinant
 
-    n = len(rows)
-    checked: list[dict[int, int]] = []
-    for i, row in enumerate(rows):
-        clean: dict[int, int] = {}
-        for j, v in row.items():
-            if type(j) is not int and not isinstance(j, Integral):
-                raise InvalidMatrixError(f"row {i}: column index {j!r} is not an integer")
-            if not 0 <= j < n:
-                raise InvalidMatrixError(f"row {i}: column index {j!r} is outside 0..{n - 1}")
-            if type(v) is not int and (isinstance(v, bool) or not isinstance(v, Integral)):
-                raise InvalidMatrixError(f"row {i}, column {j}: entry {v!r} is not an integer")
-            if v:
-                clean[int(j)] = int(v)
-        checked.append(clean)
+    checked = as_sparse_int_rows(rows, len(rows))
     limit = hadamard_bound(checked)
     if bound is not None:
         limit = min(limit, bound)
