@@ -12,13 +12,17 @@ N. Jacobson, *Basic Algebra I*, 2nd ed., W. H. Freeman, 1985, §3.8.
 
 from __future__ import annotations
 
-from collections.abc import Iterable
+from collections.abc import Callable, Iterable
 
 __all__ = ["abelian_group_text"]
 
 
 def abelian_group_text(
-    invariant_factors: Iterable[int], free_rank: int = 0, *, compact: bool = False
+    invariant_factors: Iterable[int],
+    free_rank: int = 0,
+    *,
+    compact: bool = False,
+    factor_text: Callable[[int], str] = str,
 ) -> str:
     """Write ``Z/d1 ⊕ … ⊕ Z/dr ⊕ Z^f``; unit factors are dropped.
 
@@ -30,6 +34,8 @@ def abelian_group_text(
         The rank of the free part.
     compact : bool, optional
         Write a run of ``k >= 3`` equal summands as ``(Z/d)^k``.
+    factor_text : callable, optional
+        How to write one factor ``d`` (default ``str``; tables shorten huge factors).
 
     Examples
     --------
@@ -51,9 +57,9 @@ def abelian_group_text(
     parts: list[str] = []
     for d, count in runs:
         if compact and count >= 3:
-            parts.append(f"(Z/{d})^{count}")
+            parts.append(f"(Z/{factor_text(d)})^{count}")
         else:
-            parts.extend([f"Z/{d}"] * count)
+            parts.extend([f"Z/{factor_text(d)}"] * count)
     if free_rank == 1:
         parts.append("Z")
     elif free_rank > 1:

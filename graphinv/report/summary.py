@@ -25,6 +25,7 @@ import networkx as nx
 
 from graphinv._graphs import require_nonempty, weighted_edges
 from graphinv.errors import InvalidGraphError
+from graphinv.notation import abelian_group_text
 from graphinv.report.jsonl import decimal_string
 
 if TYPE_CHECKING:
@@ -87,22 +88,11 @@ def format_group(group: CriticalGroup) -> str:
     >>> format_group(critical_group(nx.complete_graph(4)))
     'Z/4 ⊕ Z/4'
     """
-    texts = [f"Z/{d}" if d.bit_length() < 200 else f"Z/{scientific(d)}" for d in group.invariant_factors]
-    return " ⊕ ".join(_runs(texts)) if texts else "0"
-
-
-def _runs(texts: Sequence[str]) -> list[str]:
-    """Write a run of k ≥ 3 equal summands ``S`` as ``(S)^k``."""
-    runs: list[list[Any]] = []
-    for text in texts:
-        if runs and runs[-1][0] == text:
-            runs[-1][1] += 1
-        else:
-            runs.append([text, 1])
-    parts: list[str] = []
-    for text, count in runs:
-        parts.extend([text] * count if count < 3 else [f"({text})^{count}"])
-    return parts
+    return abelian_group_text(
+        group.invariant_factors,
+        compact=True,
+        factor_text=lambda d: str(d) if d.bit_length() < 200 else scientific(d),
+    )
 
 
 def format_primary_decomposition(group: CriticalGroup) -> str:
@@ -118,11 +108,12 @@ def format_primary_decomposition(group: CriticalGroup) -> str:
     '(Z/2)^4 ⊕ (Z/5)^3'
     """
     parts, rest = primary_parts(group)
-    text = _runs([f"Z/{q}" for p in sorted(parts) for q in parts[p]])
+    text = abelian_group_text([q for p in sorted(parts) for q in parts[p]], compact=True)
     if rest:
         digits = ", ".join(str(len(decimal_string(r))) for r in rest)
-        text.append(f"(part of order prime to all p < {_SMALL_PRIME_BOUND}: cyclic factors of {digits} digits)")
-    return " ⊕ ".join(text) if text else "0"
+        note = f"(part of order prime to all p < {_SMALL_PRIME_BOUND}: cyclic factors of {digits} digits)"
+        text = note if text == "0" else f"{text} ⊕ {note}"
+    return text
 
 
 _SMALL_PRIME_BOUND = 10_000
