@@ -7,7 +7,7 @@ import numpy as np
 import pytest
 import sympy
 from hypothesis import given, settings
-from hypothesis import strategies as st
+from strategies import multigraphs
 
 from graphinv import (
     DisconnectedGraphError,
@@ -20,18 +20,6 @@ from graphinv import (
     reduced_laplacian_matrix,
     signless_laplacian_matrix,
 )
-
-
-@st.composite
-def multigraphs(draw, max_vertices: int = 8):
-    n = draw(st.integers(1, max_vertices))
-    G = nx.Graph()
-    G.add_nodes_from(range(n))
-    pairs = [(i, j) for i in range(n) for j in range(i + 1, n)]
-    chosen = draw(st.lists(st.sampled_from(pairs), unique=True) if pairs else st.just([]))
-    for u, v in chosen:
-        G.add_edge(u, v, weight=draw(st.integers(1, 4)))
-    return G
 
 
 @settings(max_examples=60, deadline=None)
