@@ -15,8 +15,9 @@ than typed in, so that a reader can see where each comes from:
 
 References
 ----------
-H. N. V. Temperley, "Enumeration of graphs on a large periodic lattice", in *Combinatorics*,
-London Math. Soc. Lecture Note Ser. 13 (1974).
+H. N. V. Temperley, "Enumeration of graphs on a large periodic lattice", in *Combinatorics*
+(Proc. British Combinatorial Conf. 1973), T. P. McDonough, V. C. Mavron (eds.), Cambridge
+University Press, 1974, pp. 285-294 (page range from memory).
 P. W. Kasteleyn, "The statistics of dimers on a lattice", Physica 27 (1961).
 J. Clancy, N. Kaplan, T. Leake, S. Payne, M. M. Wood, "On a Cohen–Lenstra heuristic for
 Jacobians of random graphs", J. Algebraic Combin. 42 (2015).
