@@ -4,8 +4,8 @@ Let ``C`` be a ``k`` by ``k`` nonsingular integer matrix with invariant factors
 ``d_1 | ... | d_k`` and ``D = |det C| = d_1 ... d_k``.
 
 1. **An element of large order.**  For an integer vector ``b``, the order of ``b`` in
-   ``Z^k / (row lattice of C)`` is the least common denominator of ``b C^{-1}``.  Solving
-   ``C^T x = b`` for two random ``b`` (python-flint's p-adic Dixon solver) gives an order ``s``
+   ``Z^k / C Z^k`` is the least common denominator of ``C^{-1} b`` (``C`` and ``C^T`` have the
+   same invariant factors).  Solving ``C x = b`` for two random ``b`` (python-flint's p-adic Dixon solver) gives an order ``s``
    with ``s | d_k``; with high probability ``s = d_k`` (Eberly, Giesbrecht, Villard 2000; Pan
    1988).  Whatever ``s`` is, the group has a cyclic subgroup of order ``s``.
 2. **The determinant** ``D = s q`` by the Chinese remainder theorem: ``q`` modulo word-size
@@ -47,7 +47,13 @@ from typing import Any
 
 from graphinv.errors import GraphInvError
 
-__all__ = ["crt_determinant", "hadamard_bound", "modular_core_diagonal", "word_primes"]
+__all__ = [
+    "crt_determinant",
+    "hadamard_bound",
+    "modular_core",
+    "modular_core_diagonal",
+    "word_primes",
+]
 
 _PRIMES: list[int] = []
 
@@ -291,28 +297,69 @@ def modular_core_diagonal(
     >>> modular_core_diagonal([[2, 0, 0], [0, 6, 0], [0, 0, 4]])
     [2, 2, 12]
     """
+    return modular_core(rows, bound=bound, seed=seed)[0]
+
+
+def modular_core(
+    rows: list[list[int]], *, bound: int | None = None, seed: int = 0
+) -> tuple[list[int], tuple[int, list[int]] | None]:
+    """:func:`modular_core_diagonal` and a rational solution of ``C y = c``, ``c`` integral.
+
+    The solution is returned as ``(s, w)`` with ``y = w / s`` (``w`` integral); ``None`` when the
+    core is singular or not square.  Its denominator divides ``det C`` (Cramer's rule), which is
+    what the determinant certificate of :mod:`graphinv.group` builds on.
+
+    Examples
+    --------
+    >>> modular_core([[2, 0, 0], [0, 6, 0], [0, 0, 4]], seed=1)[0]
+    [2, 2, 12]
+    """
     import flint
 
     k = len(rows)
     C = flint.fmpz_mat(rows)
     if k == 0 or C.ncols() != k:
-        return _flint_fallback(C)
+        return _flint_fallback(C), None
     rng = random.Random(seed * 1_000_003 + k)
     B = flint.fmpz_mat([[rng.randrange(-(1 << 20), 1 << 20) for _ in range(2)] for _ in range(k)])
     try:
-        X = C.transpose().solve(B)
+        # C and its transpose have the same invariant factors, so the order of ``c`` in
+        # ``Z^k / C Z^k`` (the common denominator of ``C^{-1} c``) divides ``d_k`` just as well.
+        X = C.solve(B)
     except ZeroDivisionError:
-        return _flint_fallback(C)
-    s = 1
-    for q in X.entries():
-        s = math.lcm(s, int(q.denom()))
+        return _flint_fallback(C), None
+    numerators: list[list[int]] = []
+    orders: list[int] = []
+    for column in range(2):
+        entries = [X[i, column] for i in range(k)]
+        lcd = 1
+        for q in entries:
+            lcd = math.lcm(lcd, int(q.denom()))
+        orders.append(lcd)
+        numerators.append([int(q.numer()) * (lcd // int(q.denom())) for q in entries])
+    s = math.lcm(*orders)
+    # x_0 + t x_1 solves C x = b_0 + t b_1; its denominator divides s, and is s unless t is
+    # unlucky at some prime (chance about 1/p), which would only weaken the certificate.
+    witness = (1, [0] * k)
+    for t in (1, 2, 3, 5, 7, 11, 13):
+        a, b = s // orders[0], t * (s // orders[1])
+        w = [a * u + b * v for u, v in zip(numerators[0], numerators[1], strict=True)]
+        common = s
+        for value in w:
+            common = math.gcd(common, value)
+            if common == 1:
+                break
+        if s // common > witness[0]:
+            witness = (s // common, [value // common for value in w])
+        if common == 1:
+            break
     own = hadamard_bound(rows)
     D = abs(crt_determinant(C, min(own, bound) if bound is not None else own, s))
     if D == 0 or D % s:
         raise _InternalCheckError("the determinant is not a multiple of an element order")
     N = D // s
     if N == 1:
-        return [1] * (k - 1) + [D]
+        return [1] * (k - 1) + [D], witness
     primes = sorted(int(p) for p, _ in flint.fmpz(N).factor())
     valuations: dict[int, list[int]] = {}
     hard: list[tuple[int, int, int]] = []
@@ -369,7 +416,7 @@ def modular_core_diagonal(
     last = D // product
     if last % s or (lower and last % lower[-1]):
         raise _InternalCheckError("the invariant factors do not form a divisibility chain")
-    return [1] * (k - depth) + lower + [last]
+    return [1] * (k - depth) + lower + [last], witness
 
 
 def _flint_fallback(C: Any) -> list[int]:

@@ -23,7 +23,7 @@ from __future__ import annotations
 import heapq
 from typing import Any
 
-__all__ = ["modular_determinant"]
+__all__ = ["determinant_residues", "modular_determinant"]
 
 _PRIMES31: list[int] = []
 _DENSE_MIN_FILL = 0.5
@@ -132,6 +132,51 @@ def modular_determinant(rows: list[dict[int, int]], bound: int) -> int:
     if value > product // 2:
         value -= product
     return value
+
+
+def determinant_residues(
+    rows: list[dict[int, int]], limit: int, *, avoid: int = 1
+) -> dict[int, int]:
+    """``{p: det A mod p}`` for primes ``p`` not dividing ``avoid`` whose product exceeds
+    ``limit`` (every residue exact; a prime whose elimination could not decide is replaced).
+
+    Examples
+    --------
+    >>> residues = determinant_residues([{0: 2, 1: -1}, {0: -1, 1: 2}], 10)
+    >>> all(r == 3 % p for p, r in residues.items())
+    True
+    """
+    n = len(rows)
+    if n <= 64 or sum(len(row) for row in rows) >= _DENSE_MIN_FILL * n * n:
+        value = modular_determinant(rows, hadamard_limit(rows))
+        count = limit.bit_length() // 30 + 1
+        usable = [p for p in _primes31(count + 16) if avoid % p][:count]
+        return {p: value % p for p in usable}
+    found: dict[int, int] = {}
+    product = 1
+    count = limit.bit_length() // 30 + 2
+    offset = 0
+    while product <= limit:
+        candidates = [p for p in _primes31(offset + count)[offset:] if avoid % p]
+        offset += count
+        residues, primes = _eliminate(rows, candidates)
+        if residues is None:
+            return {p: 0 for p in candidates}
+        for r, p in zip(residues, primes, strict=True):
+            found[p] = r
+            product *= p
+        count = max(2, (limit // product).bit_length() // 30 + 2)
+    return found
+
+
+def hadamard_limit(rows: list[dict[int, int]]) -> int:
+    """Hadamard's bound: the product of the rows' Euclidean lengths, rounded up."""
+    from math import isqrt
+
+    product = 1
+    for row in rows:
+        product *= sum(v * v for v in row.values())
+    return isqrt(product - 1) + 1 if product else 0
 
 
 class _Pool:

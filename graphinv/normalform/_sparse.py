@@ -18,9 +18,15 @@ computations", J. Symbolic Comput. 32 (2001).
 from __future__ import annotations
 
 import heapq
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 
-__all__ = ["UnitReduction", "dense_rows", "eliminate_unit_pivots", "sparse_rows"]
+__all__ = [
+    "UnitReduction",
+    "dense_rows",
+    "eliminate_unit_pivots",
+    "extend_solution",
+    "sparse_rows",
+]
 
 
 @dataclass(frozen=True)
@@ -37,12 +43,22 @@ class UnitReduction:
         The number of remaining columns (some may be empty: free summands of the cokernel).
     n_rows : int
         The number of remaining rows, zero rows included.
+    pivot_rows : list of (int, dict)
+        With ``keep_pivots=True``: each pivot's column and its row as it was when chosen (in
+        the original column numbering), in elimination order.  Row ``t`` has no entry in the
+        columns of earlier pivots, so these rows are an upper triangular block with ``+-1`` on
+        its diagonal: back-substitution through them extends a solution of the core to one of
+        the whole matrix.
+    kept_columns : list of int
+        With ``keep_pivots=True``: the original number of each remaining column.
     """
 
     pivots: int
     rows: list[dict[int, int]]
     n_columns: int
     n_rows: int
+    pivot_rows: list[tuple[int, dict[int, int]]] = field(default_factory=list)
+    kept_columns: list[int] = field(default_factory=list)
 
 
 def sparse_rows(rows: list[list[int]]) -> list[dict[int, int]]:
@@ -67,7 +83,9 @@ def dense_rows(rows: list[dict[int, int]], n_columns: int) -> list[list[int]]:
     return dense
 
 
-def eliminate_unit_pivots(rows: list[dict[int, int]], n_columns: int) -> UnitReduction:
+def eliminate_unit_pivots(
+    rows: list[dict[int, int]], n_columns: int, *, keep_pivots: bool = False
+) -> UnitReduction:
     """Eliminate ``+-1`` pivots until none is left; the input rows are consumed.
 
     Parameters
@@ -76,6 +94,8 @@ def eliminate_unit_pivots(rows: list[dict[int, int]], n_columns: int) -> UnitRed
         Sparse rows ``{column: nonzero value}``; modified in place.
     n_columns : int
         Number of columns of the matrix.
+    keep_pivots : bool
+        Keep the pivot rows (for :func:`extend_solution`).
 
     Returns
     -------
@@ -97,6 +117,7 @@ def eliminate_unit_pivots(rows: list[dict[int, int]], n_columns: int) -> UnitRed
     heap = [(len(row), i) for i, row in enumerate(rows) if row]
     heapq.heapify(heap)
     pivots = 0
+    kept: list[tuple[int, dict[int, int]]] = []
     while heap:
         length, i = heapq.heappop(heap)
         row = rows[i]
@@ -114,6 +135,8 @@ def eliminate_unit_pivots(rows: list[dict[int, int]], n_columns: int) -> UnitRed
         if best_column < 0:
             continue
         a = row[best_column]
+        if keep_pivots:
+            kept.append((best_column, row))
         dead_row[i] = True
         dead_column[best_column] = True
         pivots += 1
@@ -144,7 +167,39 @@ def eliminate_unit_pivots(rows: list[dict[int, int]], n_columns: int) -> UnitRed
         for i in range(n_rows)
         if not dead_row[i] and rows[i]
     ]
-    return UnitReduction(pivots, left, len(renumber), n_rows - pivots)
+    return UnitReduction(
+        pivots, left, len(renumber), n_rows - pivots, kept, list(renumber) if keep_pivots else []
+    )
+
+
+def extend_solution(reduction: UnitReduction, core_vector: list[int], n_columns: int) -> list[int]:
+    """Extend ``y`` with ``C y = c`` (``C`` the core) to ``x`` with ``A x = E^{-1} (0, c)``.
+
+    The elimination is ``E A = [[T, X], [0, C]]`` with ``E`` unimodular and ``T`` the upper
+    triangular block of pivot rows (``+-1`` diagonal), so ``x`` agrees with ``y`` on the kept
+    columns and the pivot columns follow by back-substitution in reverse pivot order.  Integer
+    in, integer out: for a rational ``y = w / s`` pass ``w``; then ``A x = s b`` with ``b``
+    integral.
+
+    Examples
+    --------
+    >>> r = eliminate_unit_pivots([{0: 2, 1: -1}, {0: -1, 1: 2}], 2, keep_pivots=True)
+    >>> r.rows, r.kept_columns
+    ([{0: 3}], [0])
+    >>> extend_solution(r, [1], 2)  # A (1, 2) = (0, 3): the core equation 3 * 1 = 3
+    [1, 2]
+    """
+    x = [0] * n_columns
+    for j, value in zip(reduction.kept_columns, core_vector, strict=True):
+        x[j] = value
+    for j, row in reversed(reduction.pivot_rows):
+        a = row[j]
+        total = 0
+        for c, v in row.items():
+            if c != j:
+                total += v * x[c]
+        x[j] = -a * total  # a = +-1 is its own inverse
+    return x
 
 
 def small_pivots(A: list[list[int]]) -> tuple[int, list[int]]:

@@ -50,7 +50,13 @@ from graphinv.normalform._sparse import (
     sparse_rows,
 )
 
-__all__ = ["Cokernel", "cokernel", "diagonal_of_rows", "sparse_cokernel"]
+__all__ = [
+    "Cokernel",
+    "cokernel",
+    "diagonal_of_rows",
+    "sparse_cokernel",
+    "sparse_cokernel_witness",
+]
 
 # Dense cores up to this size go to the classical elimination; larger ones to the modular finish.
 SMALL_CORE = 24
@@ -148,6 +154,50 @@ def diagonal_of_rows(rows: list[list[int]], m: int, n: int) -> tuple[int, ...]:
         pivots, core = _reduced_invariants(sparse_rows(rows), n)
     nonzero = [1] * pivots + core
     return tuple(nonzero + [0] * (min(m, n) - len(nonzero)))
+
+
+def sparse_cokernel_witness(
+    rows: Sequence[Mapping[int, int]], *, n_columns: int
+) -> tuple[Cokernel, tuple[int, list[int]] | None]:
+    """:func:`sparse_cokernel`, with a solution that proves a divisor of the determinant.
+
+    For a square nonsingular matrix whose core took the modular route, also ``(s, w)`` with
+    ``A w = 0 (mod s)`` and ``s`` the (typically largest) order of an element: the core's
+    rational solution, extended through the unit pivots by back-substitution.  Check it with
+    :func:`graphinv.normalform.determinant.determinant_divisor`.  ``None`` otherwise.
+
+    Examples
+    --------
+    >>> from graphinv.normalform.determinant import determinant_divisor
+    >>> n = 40  # the cycle C_40: Z/40
+    >>> A = [{i: 2, (i + 1) % n: -1, (i - 1) % n: -1} for i in range(n - 1)]
+    >>> A = [{j: v for j, v in row.items() if j < n - 1} for row in A]
+    >>> group, witness = sparse_cokernel_witness(A, n_columns=n - 1)
+    >>> group.invariant_factors, witness is None
+    ((40,), True)
+
+    References
+    ----------
+    Abbott, Bronstein, Mulders, ISSAC 1999; Dumas, Saunders, Villard, J. Symbolic Comput. 32
+    (2001).
+    """
+    from graphinv.normalform._modular import hadamard_bound, modular_core
+    from graphinv.normalform._sparse import extend_solution
+
+    checked = as_sparse_int_rows(rows, n_columns)
+    bound = hadamard_bound([row for row in checked if row])
+    reduction = eliminate_unit_pivots(checked, n_columns, keep_pivots=True)
+    k = min(len(reduction.rows), reduction.n_columns)
+    witness = None
+    if k <= SMALL_CORE:
+        core = _core_diagonal(reduction.rows, reduction.n_columns, bound)
+    else:
+        core, solution = modular_core(dense_rows(reduction.rows, reduction.n_columns), bound=bound)
+        if solution is not None and len(reduction.rows) == reduction.n_columns == k:
+            s, w = solution
+            witness = (s, extend_solution(reduction, w, n_columns))
+    rank = reduction.pivots + len(core)
+    return Cokernel(tuple(d for d in core if d > 1), n_columns - rank), witness
 
 
 def sparse_cokernel(rows: Sequence[Mapping[int, int]], *, n_columns: int) -> Cokernel:
