@@ -83,7 +83,9 @@ def weighted_edges(G: nx.Graph) -> Iterator[tuple[Hashable, Hashable, int]]:
         for u, v, data in G.edges(data=True):
             if u == v:
                 continue
-            yield u, v, as_multiplicity(data.get("weight", 1), edge=(u, v))
+            w = data.get("weight", 1)
+            # The common case first: a plain positive int needs no further checks.
+            yield u, v, (w if type(w) is int and w > 0 else as_multiplicity(w, edge=(u, v)))
 
 
 def require_nonempty(G: nx.Graph) -> None:

@@ -347,9 +347,12 @@ def _blocks(
     G: nx.Graph, adjacency: dict[Hashable, dict[Hashable, int]]
 ) -> tuple[list[list[Hashable]], int]:
     """The blocks with at least two vertices, and the number of connected components."""
-    H = nx.Graph()
-    H.add_nodes_from(G)
-    H.add_edges_from((u, v) for u, nbrs in adjacency.items() for v in nbrs)
+    if type(G) is nx.Graph and nx.number_of_selfloops(G) == 0:
+        H = G  # already the simple loopless graph the blocks are taken of
+    else:
+        H = nx.Graph()
+        H.add_nodes_from(G)
+        H.add_edges_from((u, v) for u, nbrs in adjacency.items() for v in nbrs)
     components = nx.number_connected_components(H)
     return [list(block) for block in nx.biconnected_components(H)], components
 

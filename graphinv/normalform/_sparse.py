@@ -84,7 +84,11 @@ def dense_rows(rows: list[dict[int, int]], n_columns: int) -> list[list[int]]:
 
 
 def eliminate_unit_pivots(
-    rows: list[dict[int, int]], n_columns: int, *, keep_pivots: bool = False
+    rows: list[dict[int, int]],
+    n_columns: int,
+    *,
+    keep_pivots: bool = False,
+    dense_stop: bool = False,
 ) -> UnitReduction:
     """Eliminate ``+-1`` pivots until none is left; the input rows are consumed.
 
@@ -96,6 +100,13 @@ def eliminate_unit_pivots(
         Number of columns of the matrix.
     keep_pivots : bool
         Keep the pivot rows (for :func:`extend_solution`).
+    dense_stop : bool
+        Stop early once the rest is dense (every row at least ``DENSE_ROW`` long and a
+        ``DENSE_SHARE`` of the remaining columns) when the group looks nearly cyclic there
+        (at most ``NEARLY_CYCLIC`` invariant factors divisible by 2 and by 3, read off the rank
+        modulo 2 and 3).  Unit pivots on dense rows of big integers cost more in Python than the
+        modular finish spends on the larger core; for groups of large rank (grids, cubes) the
+        finish works harder per prime, so elimination continues.
 
     Returns
     -------
@@ -118,11 +129,17 @@ def eliminate_unit_pivots(
     heapq.heapify(heap)
     pivots = 0
     kept: list[tuple[int, dict[int, int]]] = []
+    probe = dense_stop
     while heap:
         length, i = heapq.heappop(heap)
         row = rows[i]
         if dead_row[i] or length != len(row):
             continue  # stale entry; the row was pushed again when it changed
+        if probe and length >= DENSE_ROW and length >= DENSE_SHARE * (n_columns - pivots):
+            probe = False
+            live = [rows[r] for r in range(n_rows) if not dead_row[r] and rows[r]]
+            if _nearly_cyclic(live, [j for j in range(n_columns) if not dead_column[j]]):
+                break
         best_column = -1
         best_count = n_rows + 1
         for j, v in row.items():
@@ -170,6 +187,29 @@ def eliminate_unit_pivots(
     return UnitReduction(
         pivots, left, len(renumber), n_rows - pivots, kept, list(renumber) if keep_pivots else []
     )
+
+
+DENSE_ROW = 40
+DENSE_SHARE = 0.12
+NEARLY_CYCLIC = 2
+
+
+def _nearly_cyclic(live: list[dict[int, int]], columns: list[int]) -> bool:
+    """At most ``NEARLY_CYCLIC`` invariant factors of the remaining matrix divisible by 2 or by 3
+    (its corank modulo each prime; square remainders only)."""
+    import flint
+
+    if len(live) != len(columns):
+        return False
+    position = {j: k for k, j in enumerate(columns)}
+    for p in (2, 3):
+        dense = [[0] * len(columns) for _ in live]
+        for line, row in zip(dense, live, strict=True):
+            for j, v in row.items():
+                line[position[j]] = v % p
+        if len(live) - flint.nmod_mat(dense, p).rank() > NEARLY_CYCLIC:
+            return False
+    return True
 
 
 def extend_solution(reduction: UnitReduction, core_vector: list[int], n_columns: int) -> list[int]:

@@ -118,7 +118,7 @@ def _reduced_invariants(rows: list[dict[int, int]], n_columns: int) -> tuple[int
     from graphinv.normalform._modular import hadamard_bound
 
     bound = hadamard_bound([row for row in rows if row])
-    reduction = eliminate_unit_pivots(rows, n_columns)
+    reduction = eliminate_unit_pivots(rows, n_columns, dense_stop=True)
     return reduction.pivots, _core_diagonal(reduction.rows, reduction.n_columns, bound)
 
 
@@ -186,7 +186,7 @@ def sparse_cokernel_witness(
 
     checked = as_sparse_int_rows(rows, n_columns)
     bound = hadamard_bound([row for row in checked if row])
-    reduction = eliminate_unit_pivots(checked, n_columns, keep_pivots=True)
+    reduction = eliminate_unit_pivots(checked, n_columns, keep_pivots=True, dense_stop=True)
     k = min(len(reduction.rows), reduction.n_columns)
     witness = None
     if k <= SMALL_CORE:

@@ -135,3 +135,17 @@ def test_medium_regular_graphs_agree_with_flint(d, n, seed):
     group = critical_group(G)
     assert group.invariant_factors == expected
     assert group.certificate.spanning_trees == group.order
+
+
+def test_early_dense_stop_agrees_with_flint():
+    # The unit elimination stops at a dense, nearly cyclic remainder (101 rows here instead of
+    # 77); the group must not change.  Reference: python-flint fmpz_mat.snf of the Laplacian.
+    G = nx.random_regular_graph(4, 300, seed=5)
+    rows = reduced_laplacian(G)
+    early = eliminate_unit_pivots([dict(r) for r in rows], len(rows), dense_stop=True)
+    full = eliminate_unit_pivots([dict(r) for r in rows], len(rows))
+    assert len(early.rows) > len(full.rows)
+    L = nx.laplacian_matrix(G, nodelist=sorted(G)).toarray().tolist()
+    S = flint.fmpz_mat(L).snf()
+    expected = tuple(int(S[i, i]) for i in range(300) if int(S[i, i]) > 1)
+    assert critical_group(G).invariant_factors == expected
