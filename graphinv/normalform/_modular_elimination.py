@@ -23,7 +23,7 @@ from __future__ import annotations
 import heapq
 from typing import Any
 
-__all__ = ["determinant_residues", "modular_determinant"]
+__all__ = ["crt_signed", "determinant_residues", "level_residues", "modular_determinant"]
 
 _PRIMES31: list[int] = []
 _DENSE_MIN_FILL = 0.5
@@ -111,6 +111,9 @@ def modular_determinant(rows: list[dict[int, int]], bound: int) -> int:
             for j, v in row.items():
                 dense[i][j] = v
         return int(flint.fmpz_mat(dense).det())
+    by_levels = level_residues(rows, 2 * bound + 1)
+    if by_levels is not None:
+        return crt_signed(by_levels)
     needed_bits = (2 * bound + 1).bit_length() + 1
     count = needed_bits // 30 + 3
     while True:
@@ -147,11 +150,14 @@ def determinant_residues(
     True
     """
     n = len(rows)
-    if n <= 64 or sum(len(row) for row in rows) >= _DENSE_MIN_FILL * n * n:
+    if n <= 64:
         value = modular_determinant(rows, hadamard_limit(rows))
         count = limit.bit_length() // 30 + 1
         usable = [p for p in _primes31(count + 16) if avoid % p][:count]
         return {p: value % p for p in usable}
+    by_levels = level_residues(rows, limit, avoid=avoid)
+    if by_levels is not None:
+        return by_levels
     found: dict[int, int] = {}
     product = 1
     count = limit.bit_length() // 30 + 2
@@ -167,6 +173,57 @@ def determinant_residues(
             product *= p
         count = max(2, (limit // product).bit_length() // 30 + 2)
     return found
+
+
+def level_residues(
+    rows: list[dict[int, int]], limit: int, *, avoid: int = 1
+) -> dict[int, int] | None:
+    """Like :func:`determinant_residues`, by the level-block sweep of
+    :mod:`graphinv.normalform._level_determinant` over primes below ``2^22`` (exact float BLAS);
+    ``None`` when a round of primes decides nothing (the caller takes the elimination route).
+
+    Examples
+    --------
+    >>> residues = level_residues([{0: 2, 1: -1}, {0: -1, 1: 2}], 10**9)
+    >>> all(r == 3 % p for p, r in residues.items())
+    True
+    """
+    from graphinv.normalform._level_determinant import float_primes, level_determinant
+
+    found: dict[int, int] = {}
+    product = 1
+    offset = 0
+    count = limit.bit_length() // 21 + 2
+    while product <= limit:
+        candidates = [p for p in float_primes(offset + count)[offset:] if avoid % p]
+        offset += count
+        decided = 0
+        for p, r in zip(candidates, level_determinant(rows, candidates), strict=True):
+            if r is not None:
+                found[p] = r
+                product *= p
+                decided += 1
+        if not decided:
+            return None
+        count = max(2, (limit // product).bit_length() // 21 + 2)
+    return found
+
+
+def crt_signed(residues: dict[int, int]) -> int:
+    """The integer of least absolute value with the given residues (Garner's CRT).
+
+    Examples
+    --------
+    >>> crt_signed({5: 3, 7: 4})
+    -17
+    """
+    value = 0
+    product = 1
+    for p, r in residues.items():
+        t = (r - value) * pow(product % p, -1, p) % p
+        value += product * t
+        product *= p
+    return value - product if value > product // 2 else value
 
 
 def hadamard_limit(rows: list[dict[int, int]]) -> int:

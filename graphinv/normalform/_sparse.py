@@ -202,14 +202,11 @@ def _nearly_cyclic(live: list[dict[int, int]], columns: list[int]) -> bool:
     if len(live) != len(columns):
         return False
     position = {j: k for k, j in enumerate(columns)}
-    for p in (2, 3):
-        dense = [[0] * len(columns) for _ in live]
-        for line, row in zip(dense, live, strict=True):
-            for j, v in row.items():
-                line[position[j]] = v % p
-        if len(live) - flint.nmod_mat(dense, p).rank() > NEARLY_CYCLIC:
-            return False
-    return True
+    dense = [[0] * len(columns) for _ in live]
+    for line, row in zip(dense, live, strict=True):
+        for j, v in row.items():
+            line[position[j]] = v
+    return all(len(live) - flint.nmod_mat(dense, p).rank() <= NEARLY_CYCLIC for p in (2, 3))
 
 
 def extend_solution(reduction: UnitReduction, core_vector: list[int], n_columns: int) -> list[int]:
