@@ -150,7 +150,8 @@ def determinant_residues(
     True
     """
     n = len(rows)
-    if n <= 64:
+    if n <= 64 or sum(len(row) for row in rows) >= _DENSE_MIN_FILL * n * n:
+        # Small or dense: python-flint's exact determinant is quicker than many residues.
         value = modular_determinant(rows, hadamard_limit(rows))
         count = limit.bit_length() // 30 + 1
         usable = [p for p in _primes31(count + 16) if avoid % p][:count]
