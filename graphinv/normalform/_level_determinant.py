@@ -51,10 +51,10 @@ P_MAX = 1 << 22
 CHUNK = 512
 """Longest inner dimension of one exact float64 product: ``CHUNK * (P_MAX - 1)^2 < 2^53``."""
 
-BASE = 24
+BASE = 12
 """Blocks up to this size are inverted by the compiled pivoting kernel."""
 
-BASE_DETERMINANT = 64
+BASE_DETERMINANT = 32
 """Blocks up to this size get their determinant by compiled elimination, without inversion."""
 
 MERGE_TARGET = 64
@@ -334,6 +334,24 @@ def _plan(rows: list[dict[int, int]], n: int) -> _Plan:
             block["ahead_cols"], block["ahead_ptr"] = _compress(cols_next[reorder])
             block["ahead_rows"] = position[r[ahead]] - (size - tail)
         plan.blocks.append(block)
+    for earlier, later in zip(plan.blocks, plan.blocks[1:], strict=False):
+        later["back_exact"] = earlier["ahead_exact"] = None
+        back_values = [plan.values[e] for e in later["back"].tolist()]
+        ahead_values = [plan.values[e] for e in earlier["ahead"].tolist()]
+        if max(map(abs, back_values + ahead_values), default=0) >= 1 << 30:
+            continue
+        row_sums = np.bincount(
+            np.repeat(np.arange(len(later["back_rows"])), np.diff(later["back_ptr"])),
+            weights=np.abs(np.array(back_values, dtype=np.float64)),
+        )
+        col_sums = np.bincount(
+            np.repeat(np.arange(len(earlier["ahead_cols"])), np.diff(earlier["ahead_ptr"])),
+            weights=np.abs(np.array(ahead_values, dtype=np.float64)),
+        )
+        # Products of G (residues below P_MAX) by B and C then stay exact in float64.
+        if row_sums.max(initial=0) * col_sums.max(initial=0) * P_MAX < 2.0**52:
+            later["back_exact"] = np.array([back_values], dtype=np.float64)
+            earlier["ahead_exact"] = np.array([ahead_values], dtype=np.float64)
     return plan
 
 
@@ -387,13 +405,14 @@ def _sweep(plan: _Plan, residues: Any, p: Any, merge: bool = False) -> tuple[Any
             break
         S = _assemble(following, residues, W)
         if G is not None and len(following["back"]) and len(block["ahead"]):
+            exact = following["back_exact"] is not None
             kernels.coupling_update(
                 S, G,
                 following["back_rows"], following["back_ptr"], following["back_cols"],
-                np.ascontiguousarray(residues[:, following["back"]]),
+                following["back_exact"] if exact else np.ascontiguousarray(residues[:, following["back"]]),
                 block["ahead_cols"], block["ahead_ptr"], block["ahead_rows"],
-                np.ascontiguousarray(residues[:, block["ahead"]]),
-                p, ops.pinv,
+                block["ahead_exact"] if exact else np.ascontiguousarray(residues[:, block["ahead"]]),
+                p, ops.pinv, exact,
             )
     return det.astype(np.int64), ok
 
@@ -451,10 +470,11 @@ class _Arithmetic:
             total = part if total is None else total + part
         return total
 
-    def difference(self, D: Any, X: Any, Y: Any) -> Any:
-        """``(D - X @ Y) mod p``."""
+    def difference(self, M: Any, row: int, col: int, X: Any, Y: Any) -> Any:
+        """``(D - X @ Y) mod p`` for the block ``D`` of ``M`` at ``(row, col)`` (``M``
+        C-contiguous)."""
         T = self.product(X, Y)
-        self.kernels.subtract_from(T, D, self.p, self.pinv)
+        self.kernels.subtract_from(T, M, row, col, self.p, self.pinv)
         return T
 
     def negated(self, X: Any, Y: Any) -> Any:
@@ -485,6 +505,7 @@ class _Arithmetic:
         W, size = M.shape[0], M.shape[1]
         if size <= BASE:
             return self._pivoting_inverse(M, np.arange(W))
+        M = np.ascontiguousarray(M)
         h = size // 2
         Ai, dA, okA, T1, Si, dS, okS = self._halves(M, h)
         F = self.negated(Si, T1)
@@ -493,7 +514,7 @@ class _Arithmetic:
         else:
             E = self.negated(self.reduced(Ai, M[:, :h, h:]), Si)
         inverse = np.empty_like(M)
-        inverse[:, :h, :h] = self.difference(Ai, E, T1)
+        inverse[:, :h, :h] = self.difference(Ai, 0, 0, E, T1)
         inverse[:, :h, h:] = E
         inverse[:, h:, :h] = F
         inverse[:, h:, h:] = Si
@@ -509,7 +530,7 @@ class _Arithmetic:
         """Inverse of the leading ``h`` block, ``C A^-1``, the Schur complement's inverse."""
         Ai, dA, okA = self.inverse(M[:, :h, :h])
         T1 = self.reduced(M[:, h:, :h], Ai)
-        S = self.difference(M[:, h:, h:], T1, M[:, :h, h:])
+        S = self.difference(M, h, h, T1, M[:, :h, h:])
         Si, dS, okS = self.inverse(S)
         return Ai, dA, okA, T1, Si, dS, okS
 
@@ -520,6 +541,7 @@ class _Arithmetic:
 
         if m == 0:
             return self.inverse(M)
+        M = np.ascontiguousarray(M)
         _, dA, okA, _, Si, dS, okS = self._halves(M, m)
         det = self.reduce(dA * dS)
         ok = okA & okS
@@ -538,10 +560,11 @@ class _Arithmetic:
             det = np.zeros(W, dtype=np.float64)
             self.kernels.gauss_determinant(np.ascontiguousarray(M), self.p, self.pinv, det)
             return det
+        M = np.ascontiguousarray(M)
         h = size // 2
         Ai, dA, okA = self.inverse(M[:, :h, :h])
         T1 = self.reduced(M[:, h:, :h], Ai)
-        S = self.difference(M[:, h:, h:], T1, M[:, :h, h:])
+        S = self.difference(M, h, h, T1, M[:, :h, h:])
         det = self.reduce(dA * self.determinant(S))
         bad = np.flatnonzero(~okA)
         if len(bad):
@@ -670,19 +693,21 @@ def _level_structure(indptr: Any, indices: Any, n: int) -> tuple[Any, Any]:
 
 
 def _gauss_jordan(M: Any, p: Any, pinv: Any, inverse: Any, det: Any, good: Any) -> None:
-    """Inverse and determinant of every ``M[w]`` modulo ``p[w]`` by Gauss-Jordan elimination
-    with row pivoting; a singular ``M[w]`` gets ``good[w] = False`` and ``det[w] = 0``."""
+    """Inverse and determinant of every ``M[w]`` modulo ``p[w]`` by in-place Gauss-Jordan
+    elimination with row pivoting (the row swaps are undone as column swaps at the end, as in
+    Press et al., Numerical Recipes, section 2.1); a singular ``M[w]`` gets ``good[w] = False``,
+    ``det[w] = 0`` and a zero inverse."""
     W = M.shape[0]
     size = M.shape[1]
-    work = np.empty((size, 2 * size), dtype=np.float64)
+    work = np.empty((size, size), dtype=np.float64)
+    pivot_row = np.empty(size, dtype=np.float64)
+    swapped = np.empty(size, dtype=np.int64)
     for w in range(W):
         pw = p[w]
         pi = pinv[w]
         for i in range(size):
             for j in range(size):
                 work[i, j] = M[w, i, j]
-                work[i, size + j] = 0.0
-            work[i, size + i] = 1.0
         d = 1.0
         singular = False
         for c in range(size):
@@ -694,8 +719,9 @@ def _gauss_jordan(M: Any, p: Any, pinv: Any, inverse: Any, det: Any, good: Any) 
             if r < 0:
                 singular = True
                 break
+            swapped[c] = r
             if r != c:
-                for j in range(c, 2 * size):
+                for j in range(size):
                     t = work[r, j]
                     work[r, j] = work[c, j]
                     work[c, j] = t
@@ -703,11 +729,8 @@ def _gauss_jordan(M: Any, p: Any, pinv: Any, inverse: Any, det: Any, good: Any) 
             pivot = work[c, c]
             x = d * pivot
             x -= pw * np.floor(x * pi)
-            if x < 0.0:
-                x += pw
-            elif x >= pw:
-                x -= pw
-            d = x
+            x = x + pw if x < 0.0 else x
+            d = x - pw if x >= pw else x
             # Inverse of the pivot by the extended Euclidean algorithm.
             a = np.int64(pivot)
             m = np.int64(pw)
@@ -718,25 +741,24 @@ def _gauss_jordan(M: Any, p: Any, pinv: Any, inverse: Any, det: Any, good: Any) 
                 a, m = m, a - q * m
                 s0, s1 = s1, s0 - q * s1
             scale = float(s0 % np.int64(pw))
-            for j in range(c, 2 * size):
+            work[c, c] = 1.0
+            for j in range(size):
                 x = work[c, j] * scale
                 x -= pw * np.floor(x * pi)
-                if x < 0.0:
-                    x += pw
-                elif x >= pw:
-                    x -= pw
+                x = x + pw if x < 0.0 else x
+                x = x - pw if x >= pw else x
                 work[c, j] = x
+                pivot_row[j] = x
             for i in range(size):
                 f = work[i, c]
                 if i == c or f == 0.0:
                     continue
-                for j in range(c, 2 * size):
-                    x = work[i, j] - f * work[c, j]
+                work[i, c] = 0.0
+                for j in range(size):
+                    x = work[i, j] - f * pivot_row[j]
                     x -= pw * np.floor(x * pi)
-                    if x < 0.0:
-                        x += pw
-                    elif x >= pw:
-                        x -= pw
+                    x = x + pw if x < 0.0 else x
+                    x = x - pw if x >= pw else x
                     work[i, j] = x
         if singular:
             det[w] = 0.0
@@ -744,12 +766,19 @@ def _gauss_jordan(M: Any, p: Any, pinv: Any, inverse: Any, det: Any, good: Any) 
             for i in range(size):
                 for j in range(size):
                     inverse[w, i, j] = 0.0
-        else:
-            det[w] = d
-            good[w] = True
-            for i in range(size):
-                for j in range(size):
-                    inverse[w, i, j] = work[i, size + j]
+            continue
+        for c in range(size - 1, -1, -1):
+            r = swapped[c]
+            if r != c:
+                for i in range(size):
+                    t = work[i, r]
+                    work[i, r] = work[i, c]
+                    work[i, c] = t
+        det[w] = d
+        good[w] = True
+        for i in range(size):
+            for j in range(size):
+                inverse[w, i, j] = work[i, j]
 
 
 def _gauss_determinant(M: Any, p: Any, pinv: Any, det: Any) -> None:
@@ -757,6 +786,7 @@ def _gauss_determinant(M: Any, p: Any, pinv: Any, det: Any) -> None:
     W = M.shape[0]
     size = M.shape[1]
     work = np.empty((size, size), dtype=np.float64)
+    pivot_row = np.empty(size, dtype=np.float64)
     for w in range(W):
         pw = p[w]
         pi = pinv[w]
@@ -774,7 +804,7 @@ def _gauss_determinant(M: Any, p: Any, pinv: Any, det: Any) -> None:
                 d = 0.0
                 break
             if r != c:
-                for j in range(c, size):
+                for j in range(size):
                     t = work[r, j]
                     work[r, j] = work[c, j]
                     work[c, j] = t
@@ -782,11 +812,8 @@ def _gauss_determinant(M: Any, p: Any, pinv: Any, det: Any) -> None:
             pivot = work[c, c]
             x = d * pivot
             x -= pw * np.floor(x * pi)
-            if x < 0.0:
-                x += pw
-            elif x >= pw:
-                x -= pw
-            d = x
+            x = x + pw if x < 0.0 else x
+            d = x - pw if x >= pw else x
             a = np.int64(pivot)
             m = np.int64(pw)
             s0 = np.int64(1)
@@ -796,24 +823,21 @@ def _gauss_determinant(M: Any, p: Any, pinv: Any, det: Any) -> None:
                 a, m = m, a - q * m
                 s0, s1 = s1, s0 - q * s1
             scale = float(s0 % np.int64(pw))
+            for j in range(size):
+                pivot_row[j] = work[c, j]
             for i in range(c + 1, size):
                 f = work[i, c]
                 if f == 0.0:
                     continue
                 x = f * scale
                 x -= pw * np.floor(x * pi)
-                if x < 0.0:
-                    x += pw
-                elif x >= pw:
-                    x -= pw
-                f = x
-                for j in range(c + 1, size):
-                    x = work[i, j] - f * work[c, j]
+                x = x + pw if x < 0.0 else x
+                f = x - pw if x >= pw else x
+                for j in range(size):
+                    x = work[i, j] - f * pivot_row[j]
                     x -= pw * np.floor(x * pi)
-                    if x < 0.0:
-                        x += pw
-                    elif x >= pw:
-                        x -= pw
+                    x = x + pw if x < 0.0 else x
+                    x = x - pw if x >= pw else x
                     work[i, j] = x
         det[w] = d
 
@@ -822,75 +846,75 @@ def _coupling_update(
     S: Any, G: Any,
     b_rows: Any, b_ptr: Any, b_cols: Any, b_values: Any,
     c_cols: Any, c_ptr: Any, c_rows: Any, c_values: Any,
-    p: Any, pinv: Any,
+    p: Any, pinv: Any, exact: bool,
 ) -> None:
     """``S -= B G C`` modulo each prime, for sparse ``B`` (rows ``b_rows`` of ``S``, CSR over the
-    rows of ``G``) and sparse ``C`` (columns ``c_cols`` of ``S``, CSC over the columns of ``G``);
-    values are per-prime residues ``(W, nnz)``."""
+    rows of ``G``) and sparse ``C`` (columns ``c_cols`` of ``S``, CSC over the columns of ``G``).
+
+    Values are per-prime residues ``(W, nnz)``, or with ``exact`` the signed integers
+    themselves, shape ``(1, nnz)``, small enough that ``|B| |G| |C|`` stays below ``2^53``, so
+    that only the result needs reducing."""
     W = S.shape[0]
-    k = G.shape[2]
-    chunk = 512
+    k = G.shape[1]
+    n_cols = len(c_cols)
+    n_rows = len(b_rows)
+    chunk = 511
     row = np.empty(k, dtype=np.float64)
     for w in range(W):
         pw = p[w]
         pi = pinv[w]
-        for a in range(len(b_rows)):
+        wb = w if b_values.shape[0] > 1 else 0
+        wc = w if c_values.shape[0] > 1 else 0
+        for a in range(n_rows):
             for t in range(k):
                 row[t] = 0.0
             count = 0
             for e in range(b_ptr[a], b_ptr[a + 1]):
-                v = b_values[w, e]
-                j = b_cols[e]
+                v = b_values[wb, e]
+                source = b_cols[e]
                 for t in range(k):
-                    row[t] += v * G[w, j, t]
+                    row[t] += v * G[w, source, t]
                 count += 1
-                if count == chunk or e + 1 == b_ptr[a + 1]:
+                if not exact and (count == chunk or e + 1 == b_ptr[a + 1]):
                     count = 0
                     for t in range(k):
                         x = row[t]
                         x -= pw * np.floor(x * pi)
-                        if x < 0.0:
-                            x += pw
-                        elif x >= pw:
-                            x -= pw
-                        row[t] = x
+                        x = x + pw if x < 0.0 else x
+                        row[t] = x - pw if x >= pw else x
             target = b_rows[a]
-            for b in range(len(c_cols)):
+            for b in range(n_cols):
                 total = 0.0
                 count = 0
                 for e in range(c_ptr[b], c_ptr[b + 1]):
-                    total += c_values[w, e] * row[c_rows[e]]
+                    total += c_values[wc, e] * row[c_rows[e]]
                     count += 1
-                    if count == chunk:
+                    if not exact and count == chunk:
                         count = 0
                         total -= pw * np.floor(total * pi)
                 x = S[w, target, c_cols[b]] - total
                 x -= pw * np.floor(x * pi)
-                if x < 0.0:
-                    x += pw
-                elif x >= pw:
-                    x -= pw
-                S[w, target, c_cols[b]] = x
+                x = x + pw if x < 0.0 else x
+                S[w, target, c_cols[b]] = x - pw if x >= pw else x
 
 
 def _reduce_inplace(X: Any, p: Any, pinv: Any) -> None:
-    """``X mod p`` in place, for nonnegative ``X < 2^53``, batch ``w`` modulo ``p[w]``."""
-    for w in range(X.shape[0]):
+    """``X mod p`` in place, for a C-contiguous ``X`` of nonnegative floats below ``2^53``,
+    ``X[w]`` modulo ``p[w]``."""
+    flat = X.reshape(X.shape[0], -1)
+    for w in range(flat.shape[0]):
         pw = p[w]
         pi = pinv[w]
-        for i in range(X.shape[1]):
-            for j in range(X.shape[2]):
-                x = X[w, i, j]
-                x -= pw * np.floor(x * pi)
-                if x < 0.0:
-                    x += pw
-                elif x >= pw:
-                    x -= pw
-                X[w, i, j] = x
+        for j in range(flat.shape[1]):
+            x = flat[w, j]
+            x -= pw * np.floor(x * pi)
+            x = x + pw if x < 0.0 else x
+            flat[w, j] = x - pw if x >= pw else x
 
 
-def _subtract_from(T: Any, D: Any, p: Any, pinv: Any) -> None:
-    """``T <- (D - T) mod p`` in place, for residues ``D`` and nonnegative ``T < 2^53``."""
+def _subtract_from(T: Any, M: Any, row: int, col: int, p: Any, pinv: Any) -> None:
+    """``T <- (M[:, row:, col:] - T) mod p`` in place, for residues ``M`` and nonnegative
+    ``T < 2^53`` (both C-contiguous; the offsets keep the loops unit-stride)."""
     for w in range(T.shape[0]):
         pw = p[w]
         pi = pinv[w]
@@ -898,27 +922,22 @@ def _subtract_from(T: Any, D: Any, p: Any, pinv: Any) -> None:
             for j in range(T.shape[2]):
                 x = T[w, i, j]
                 x -= pw * np.floor(x * pi)
-                x = D[w, i, j] - x
-                if x < 0.0:
-                    x += pw
-                if x < 0.0:
-                    x += pw
-                elif x >= pw:
-                    x -= pw
-                T[w, i, j] = x
+                x = x + pw if x < 0.0 else x
+                x = x - pw if x >= pw else x
+                x = M[w, row + i, col + j] - x
+                T[w, i, j] = x + pw if x < 0.0 else x
 
 
 def _negate_inplace(T: Any, p: Any, pinv: Any) -> None:
-    """``T <- (-T) mod p`` in place, for nonnegative ``T < 2^53``."""
-    for w in range(T.shape[0]):
+    """``T <- (-T) mod p`` in place, for a C-contiguous ``T`` of nonnegative floats below
+    ``2^53``."""
+    flat = T.reshape(T.shape[0], -1)
+    for w in range(flat.shape[0]):
         pw = p[w]
         pi = pinv[w]
-        for i in range(T.shape[1]):
-            for j in range(T.shape[2]):
-                x = T[w, i, j]
-                x -= pw * np.floor(x * pi)
-                if x < 0.0:
-                    x += pw
-                elif x >= pw:
-                    x -= pw
-                T[w, i, j] = pw - x if x != 0.0 else 0.0
+        for j in range(flat.shape[1]):
+            x = flat[w, j]
+            x -= pw * np.floor(x * pi)
+            x = x + pw if x < 0.0 else x
+            x = x - pw if x >= pw else x
+            flat[w, j] = pw - x if x != 0.0 else 0.0
