@@ -24,8 +24,15 @@ at most ``CHUNK = 512`` of them is below ``2^53``, the range where float64 holds
 longer inner dimensions are split into chunks and reduced between them.  Blocks of at most
 ``BASE`` rows are inverted by a compiled Gauss--Jordan kernel with row pivoting, prime by prime.
 When a leading half-block is singular modulo some prime, that prime's whole block is redone by
-the pivoting kernel, so a prime is given up (``None``) only when a Schur complement ``S_i``
-before the last one is itself singular modulo the prime.
+the pivoting kernel, so only a Schur complement ``S_i`` that is itself singular modulo the prime
+stops the sweep.  That prime is then swept again alone, and a singular ``S_i`` is not eliminated
+but bordered by the next block into one larger dense block (the matrix stays block
+tridiagonal); a prime is given up (``None``) only if that block would outgrow the memory budget.
+A singular last block simply gives the residue 0.
+
+Symmetric matrices (Laplacians) use the symmetric form of the block inverse (four products
+instead of six), and couplings with small integer entries are applied to the residues without
+intermediate reductions.
 
 References
 ----------
@@ -153,10 +160,10 @@ def level_determinant(rows: list[dict[int, int]], primes: list[int]) -> list[int
     Returns
     -------
     list of int or None
-        Entry ``k`` is ``det(A) mod primes[k]`` in ``[0, p)``, or ``None`` when the sweep met a
-        singular Schur complement modulo that prime before the last block (the prime is then
-        undecided; use another).  A residue given is always right.  The empty matrix has
-        determinant 1.
+        Entry ``k`` is ``det(A) mod primes[k]`` in ``[0, p)``, or ``None`` when that prime
+        could not be decided: an intermediate Schur complement was singular modulo it and the
+        merged dense block that would get past it exceeds the memory budget (rare; use another
+        prime).  A residue given is always right.  The empty matrix has determinant 1.
 
     Raises
     ------
@@ -192,7 +199,7 @@ def level_determinant(rows: list[dict[int, int]], primes: list[int]) -> list[int
 
     moduli = _check_primes(primes)
     n = len(rows)
-    checked = as_sparse_int_rows(rows, n)
+    checked = rows if _plain_rows(rows, n) else as_sparse_int_rows(rows, n)
     if not moduli:
         return []
     if n == 0:
@@ -212,6 +219,21 @@ def level_determinant(rows: list[dict[int, int]], primes: list[int]) -> list[int
             det[w], ok[w] = one[0], good[0]
         result.extend(int(d) if good else None for d, good in zip(det.tolist(), ok.tolist(), strict=True))
     return result
+
+
+def _plain_rows(rows: list[dict[int, int]], n: int) -> bool:
+    """Whether the rows are already dicts of plain ints, columns in range, no zero entries
+    (the common case, checked at C speed; anything else goes through the full check)."""
+    for row in rows:
+        if type(row) is not dict:
+            return False
+        if not row:
+            continue
+        if set(map(type, row)) != {int} or set(map(type, row.values())) != {int}:
+            return False
+        if min(row) < 0 or max(row) >= n or 0 in row.values():
+            return False
+    return True
 
 
 _CHECKED_PRIMES: set[int] = set()
