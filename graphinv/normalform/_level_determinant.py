@@ -202,8 +202,10 @@ def level_determinant(rows: list[dict[int, int]], primes: list[int]) -> list[int
     checked = rows if _plain_rows(rows, n) else as_sparse_int_rows(rows, n)
     if not moduli:
         return []
-    if n == 0:
-        return [1] * len(moduli)
+    factor, checked = _peel_unit_leaves(checked)
+    n = len(checked)
+    if n == 0 or factor == 0:
+        return [factor % q for q in moduli]
     plan = _plan(checked, n)
     batch = max(1, MEMORY_BUDGET // (10 * 8 * max(1, plan.largest) ** 2))
     result: list[int | None] = []
@@ -217,8 +219,66 @@ def level_determinant(rows: list[dict[int, int]], primes: list[int]) -> list[int
         for w in np.flatnonzero(~ok).tolist():
             one, good = _sweep(plan, residues[w : w + 1], p[w : w + 1], merge=True)
             det[w], ok[w] = one[0], good[0]
+        if factor != 1:
+            det = det * np.array([factor % q for q in chunk], dtype=np.int64) % p.astype(np.int64)
         result.extend(int(d) if good else None for d, good in zip(det.tolist(), ok.tolist(), strict=True))
     return result
+
+
+def _peel_unit_leaves(rows: list[dict[int, int]]) -> tuple[int, list[dict[int, int]]]:
+    """Eliminate, exactly over the integers, vertices of pattern degree 0 and pendant vertices
+    whose pivot is +-1 (repeatedly: hanging trees of a Laplacian peel away completely).
+
+    A pendant vertex ``v`` with neighbour ``u`` and ``A[v, v] = a = +-1`` leaves the Schur
+    complement ``A[u, u] - A[u, v] a A[v, u]`` on the other rows; an isolated vertex contributes
+    its diagonal entry.  Returns the product of the eliminated pivots and the remaining rows,
+    renumbered.  This keeps stars and trees from making one very wide level.
+    """
+    if not any(len(row) <= 2 for row in rows):
+        return 1, rows
+    n = len(rows)
+    neighbours = [set(row) for row in rows]
+    for i, row in enumerate(rows):
+        neighbours[i].discard(i)
+        for j in row:
+            if j != i:
+                neighbours[j].add(i)
+    queue = [v for v in range(n) if len(neighbours[v]) <= 1]
+    if not queue:
+        return 1, rows
+    work = [dict(row) for row in rows]
+    alive = [True] * n
+    factor = 1
+    while queue:
+        v = queue.pop()
+        if not alive[v] or len(neighbours[v]) > 1:
+            continue
+        pivot = work[v].get(v, 0)
+        if not neighbours[v]:
+            factor *= pivot
+            alive[v] = False
+            continue
+        if pivot not in (1, -1):
+            continue
+        (u,) = neighbours[v]
+        change = work[u].get(v, 0) * work[v].get(u, 0) * pivot
+        if change:
+            value = work[u].get(u, 0) - change
+            if value:
+                work[u][u] = value
+            else:
+                work[u].pop(u, None)
+        work[u].pop(v, None)
+        neighbours[u].discard(v)
+        factor *= pivot
+        alive[v] = False
+        if len(neighbours[u]) <= 1:
+            queue.append(u)
+    kept = [v for v in range(n) if alive[v]]
+    if len(kept) == n:
+        return 1, rows
+    index = {v: k for k, v in enumerate(kept)}
+    return factor, [{index[j]: x for j, x in work[v].items()} for v in kept]
 
 
 def _plain_rows(rows: list[dict[int, int]], n: int) -> bool:

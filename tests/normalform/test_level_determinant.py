@@ -219,6 +219,30 @@ def test_singular_laplacian_gives_zero_or_none() -> None:
         assert all(r in (0, None) for r in residues)
 
 
+def test_trees_and_stars_have_one_spanning_tree() -> None:
+    # A tree has exactly one spanning tree: common fact.  Pendant vertices are peeled exactly,
+    # so a star with thousands of leaves costs no wide level.
+    for G in (nx.star_graph(3000), nx.random_labeled_tree(400, seed=9), nx.path_graph(300)):
+        assert level_determinant(reduced_laplacian(G), PRIMES) == [1] * len(PRIMES)
+
+
+def test_graphs_with_hanging_trees_match_flint() -> None:
+    # Pendant trees and paths attached to a dense core; python-flint fmpz_mat.det as reference.
+    G = nx.random_regular_graph(4, 60, seed=4)
+    rng = random.Random(8)
+    for k in range(200):
+        G.add_edge(60 + k, rng.randrange(60 + k))
+    G.add_edge(300, 301)  # a separate component: the reduced Laplacian is singular
+    rows = reduced_laplacian(G)
+    exact = int(flint.fmpz_mat(dense(rows)).det())
+    assert level_determinant(rows, PRIMES) == [exact % p for p in PRIMES]
+    G.remove_nodes_from([300, 301])
+    rows = reduced_laplacian(G)
+    exact = int(flint.fmpz_mat(dense(rows)).det())
+    assert exact != 0
+    assert level_determinant(rows, PRIMES) == [exact % p for p in PRIMES]
+
+
 def test_singular_intermediate_blocks(monkeypatch: pytest.MonkeyPatch) -> None:
     # Adjacency matrix of the path on n vertices: det = (-1)^(n/2) for even n (its one perfect
     # matching), 0 for odd n: common fact.  With one level per block every S_1 = [0] is
