@@ -199,6 +199,79 @@ def _reduce_rational(S: Any, modulus: int) -> list[list[int]]:
     return out
 
 
+def _complement_of_independent(M: Any, t: int, p: int) -> list[int]:
+    """``t`` column indices of ``M`` (rank ``ncols - t`` modulo ``p``) whose complement is a set
+    of independent columns: rows of a nullspace basis forming a nonsingular ``t`` by ``t``
+    block (a dependency among the other columns would be a kernel vector vanishing there)."""
+    import flint
+
+    k = M.ncols()
+    X, nullity = M.nullspace()
+    if nullity != t:
+        raise _InternalCheckError("rank modulo p changed between two computations")
+    selector = flint.nmod_mat(k, t, [1 if i == j else 0 for i in range(k) for j in range(t)], p)
+    basis = [[int(x) for x in line] for line in (X * selector).tolist()]
+    chosen: list[int] = []
+    reduced: list[tuple[int, list[int]]] = []  # (pivot position, normalized row)
+    for i, line in enumerate(basis):
+        v = list(line)
+        for position, pivot_row in reduced:
+            if v[position]:
+                factor = v[position]
+                v = [(a - factor * b) % p for a, b in zip(v, pivot_row, strict=True)]
+        position = next((j for j, x in enumerate(v) if x), -1)
+        if position >= 0:
+            inverse = pow(v[position], -1, p)
+            reduced.append((position, [x * inverse % p for x in v]))
+            chosen.append(i)
+            if len(chosen) == t:
+                return chosen
+    raise _InternalCheckError("a nullspace basis of full rank was expected")
+
+
+def _local_schur_word(rows: list[list[int]], C: Any, p: int, t: int, precision: int) -> list[list[int]]:
+    """The ``t`` by ``t`` Schur complement ``S = C22 - C21 C11^{-1} C12`` modulo ``p^precision``,
+    where ``C11 = C[R, K]`` is nonsingular modulo ``p`` (``t`` = corank of ``C`` modulo ``p``).
+
+    Over the ``p``-adic integers ``C`` is equivalent to ``diag(C11, S)`` with ``C11``
+    invertible, so ``S`` carries the whole local Smith form.  ``X = C11^{-1} C12`` is lifted
+    ``p``-adically (Dixon 1982): one inverse modulo ``p``, then one exact product per digit.
+    """
+    import flint
+
+    k = len(rows)
+    K_rest = _complement_of_independent(_mod_matrix(C, p), t, p)
+    R_rest = _complement_of_independent(_mod_matrix(C.transpose(), p), t, p)
+    dropped_columns, dropped_rows = set(K_rest), set(R_rest)
+    K = [j for j in range(k) if j not in dropped_columns]
+    R = [i for i in range(k) if i not in dropped_rows]
+
+    def block(row_index: list[int], columns: list[int]) -> Any:
+        return flint.fmpz_mat([[rows[i][j] for j in columns] for i in row_index])
+
+    C11 = block(R, K)
+    inverse = flint.nmod_mat(C11, p).inv()
+    residual = [[rows[i][j] for j in K_rest] for i in R]
+    X = [[0] * t for _ in R]
+    power = 1
+    for _ in range(precision):
+        digit = [
+            [int(x) for x in line]
+            for line in (inverse * flint.nmod_mat(residual, p)).tolist()
+        ]
+        for line, add in zip(X, digit, strict=True):
+            for j in range(t):
+                line[j] += power * add[j]
+        product = (C11 * flint.fmpz_mat(digit)).tolist()
+        residual = [
+            [(a - int(b)) // p for a, b in zip(line, other, strict=True)]
+            for line, other in zip(residual, product, strict=True)
+        ]
+        power *= p
+    S = block(R_rest, K_rest) - block(R_rest, K) * flint.fmpz_mat(X)
+    return [[int(x) % power for x in line] for line in S.tolist()]
+
+
 def _local_valuations_word(rows: list[list[int]], p: int, precision: int) -> list[int]:
     """Local Smith form over ``Z / p^precision`` with ``p^precision < 2^31``, vectorized.
 
@@ -380,7 +453,8 @@ def modular_core(
             precision -= 1
         if precision < 2:
             continue
-        local = sorted((v for v in _local_valuations_word(rows, p, precision) if v), reverse=True)
+        reduced = _local_schur_word(rows, C, p, t, precision) if t < k // 4 else rows
+        local = sorted((v for v in _local_valuations_word(reduced, p, precision) if v), reverse=True)
         saturated = sum(1 for v in local if v >= precision)
         if len(local) == t and saturated <= 1:
             # Only the largest can be cut off by the precision; the total fixes it.
@@ -398,8 +472,7 @@ def modular_core(
                 served.append(item)
                 hard.remove(item)
         for t_q, q, e_q in served:
-            reduced = flint.fmpz_mat(_reduce_rational(S, q ** (e_q + 1)))
-            local = _local_valuations(reduced, q, e_q + 1)
+            local = _local_valuations(flint.fmpz_mat(_reduce_rational(S, q ** (e_q + 1))), q, e_q + 1)
             local = sorted((v for v in local if v), reverse=True)
             if len(local) != t_q or sum(local) != e_q:
                 raise _InternalCheckError(f"local Smith form at {q} does not match the determinant")

@@ -191,7 +191,7 @@ def eliminate_unit_pivots(
 
 DENSE_ROW = 40
 DENSE_SHARE = 0.12
-NEARLY_CYCLIC = 2
+NEARLY_CYCLIC = 8
 
 
 def _nearly_cyclic(live: list[dict[int, int]], columns: list[int]) -> bool:
