@@ -361,7 +361,7 @@ def modular_core_diagonal(
     rows : list of lists of int
     bound : int, optional
         A known bound on ``|det|`` (for instance Hadamard's bound of the matrix this core was
-        reduced from); the smaller of it and the core's own Hadamard bound is used.
+        reduced from); default the core's own Hadamard bound.
     seed : int
         Seed for the random right-hand sides (the answer does not depend on it).
 
@@ -426,8 +426,9 @@ def modular_core(
             witness = (s // common, [value // common for value in w])
         if common == 1:
             break
-    own = hadamard_bound(rows)
-    D = abs(crt_determinant(C, min(own, bound) if bound is not None else own, s))
+    # A bound inherited from the matrix before elimination is far tighter than the core's own
+    # Hadamard bound (which costs a pass over k^2 big entries), so the latter is only a default.
+    D = abs(crt_determinant(C, bound if bound is not None else hadamard_bound(rows), s))
     if D == 0 or D % s:
         raise _InternalCheckError("the determinant is not a multiple of an element order")
     N = D // s
