@@ -159,18 +159,22 @@ def eliminate_unit_pivots(
         pivots += 1
         for j in row:
             columns[j].discard(i)
+        # The pivot column itself always clears (a * a = 1); the rest of the row is the update.
+        others = [(j, v) for j, v in row.items() if j != best_column]
         for r in columns[best_column]:
             target = rows[r]
-            factor = target[best_column] * a
-            for j, v in row.items():
-                new = target.get(j, 0) - factor * v
-                if new:
-                    if j not in target:
-                        columns[j].add(r)
-                    target[j] = new
+            factor = target.pop(best_column) * a
+            for j, v in others:
+                old = target.get(j)
+                if old is None:
+                    target[j] = -factor * v
+                    columns[j].add(r)
                 else:
-                    del target[j]
-                    if j != best_column:
+                    new = old - factor * v
+                    if new:
+                        target[j] = new
+                    else:
+                        del target[j]
                         columns[j].discard(r)
             heapq.heappush(heap, (len(target), r))
         columns[best_column] = set()
