@@ -587,7 +587,6 @@ class _Arithmetic:
         W, size = M.shape[0], M.shape[1]
         if size <= BASE:
             return self._pivoting_inverse(M, np.arange(W))
-        M = np.ascontiguousarray(M)
         h = size // 2
         Ai, dA, okA, T1, Si, dS, okS = self._halves(M, h)
         F = self.negated(Si, T1)
@@ -605,7 +604,8 @@ class _Arithmetic:
         bad = np.flatnonzero(~okA)
         if len(bad):
             inverse[bad], det[bad], ok[bad] = self._pivoting_inverse(M, bad)
-        inverse[~ok] = 0
+        if not ok.all():
+            inverse[~ok] = 0
         return inverse, det, ok
 
     def _halves(self, M: Any, h: int) -> tuple[Any, ...]:
