@@ -30,6 +30,10 @@ but bordered by the next block into one larger dense block (the matrix stays blo
 tridiagonal); a prime is given up (``None``) only if that block would outgrow the memory budget.
 A singular last block simply gives the residue 0.
 
+Before the sweep, vertices of pattern degree 0 and pendant vertices whose pivot is ``+-1`` are
+eliminated exactly over the integers, repeatedly (so trees hanging off a Laplacian, and stars,
+cost nothing and make no wide level).
+
 Symmetric matrices (Laplacians) use the symmetric form of the block inverse (four products
 instead of six), and couplings with small integer entries are applied to the residues without
 intermediate reductions.
