@@ -211,7 +211,8 @@ def level_determinant(rows: list[dict[int, int]], primes: list[int]) -> list[int
     if n == 0 or factor == 0:
         return [factor % q for q in moduli]
     plan = _plan(checked, n)
-    batch = max(1, MEMORY_BUDGET // (10 * 8 * max(1, plan.largest) ** 2))
+    # A batch of primes holds about ten (W, l, l) blocks and the (W, nnz) entry residues.
+    batch = max(1, MEMORY_BUDGET // (8 * (10 * plan.largest**2 + 3 * len(plan.values))))
     result: list[int | None] = []
     for start in range(0, len(moduli), batch):
         chunk = moduli[start : start + batch]

@@ -259,6 +259,17 @@ def test_singular_intermediate_blocks(monkeypatch: pytest.MonkeyPatch) -> None:
     assert level_determinant(rows, PRIMES) == [None] * len(PRIMES)
 
 
+def test_primes_in_batches_give_the_same_residues(monkeypatch: pytest.MonkeyPatch) -> None:
+    G = nx.random_regular_graph(3, 100, seed=12)
+    rows = reduced_laplacian(G)
+    primes = float_primes(9)
+    whole = level_determinant(rows, primes)
+    monkeypatch.setattr(level_module, "MEMORY_BUDGET", 1 << 18)  # a few primes per batch
+    assert level_determinant(rows, primes) == whole
+    exact = int(flint.fmpz_mat(dense(rows)).det())  # python-flint fmpz_mat.det
+    assert whole == [exact % p for p in primes]
+
+
 def test_relabelling_does_not_change_the_result() -> None:
     G = nx.random_regular_graph(3, 150, seed=11)
     rows = reduced_laplacian(G)
