@@ -499,7 +499,7 @@ def _sweep(plan: _Plan, residues: Any, p: Any, merge: bool = False) -> tuple[Any
                 following["back_exact"] if exact else np.ascontiguousarray(residues[:, following["back"]]),
                 block["ahead_cols"], block["ahead_ptr"], block["ahead_rows"],
                 block["ahead_exact"] if exact else np.ascontiguousarray(residues[:, block["ahead"]]),
-                p, ops.pinv, exact,
+                p, ops.pinv, exact, plan.symmetric,
             )
     return det.astype(np.int64), ok
 
@@ -933,14 +933,16 @@ def _coupling_update(
     S: Any, G: Any,
     b_rows: Any, b_ptr: Any, b_cols: Any, b_values: Any,
     c_cols: Any, c_ptr: Any, c_rows: Any, c_values: Any,
-    p: Any, pinv: Any, exact: bool,
+    p: Any, pinv: Any, exact: bool, mirror: bool,
 ) -> None:
     """``S -= B G C`` modulo each prime, for sparse ``B`` (rows ``b_rows`` of ``S``, CSR over the
     rows of ``G``) and sparse ``C`` (columns ``c_cols`` of ``S``, CSC over the columns of ``G``).
 
     Values are per-prime residues ``(W, nnz)``, or with ``exact`` the signed integers
     themselves, shape ``(1, nnz)``, small enough that ``|B| |G| |C|`` stays below ``2^53``, so
-    that only the result needs reducing."""
+    that only the result needs reducing.  With ``mirror`` (a symmetric matrix: ``C = B^T``,
+    ``G`` and ``S`` symmetric, ``b_rows == c_cols``) only the upper triangle of ``B G C`` is
+    formed and copied to the lower one."""
     W = S.shape[0]
     k = G.shape[1]
     n_cols = len(c_cols)
@@ -970,7 +972,7 @@ def _coupling_update(
                         x = x + pw if x < 0.0 else x
                         row[t] = x - pw if x >= pw else x
             target = b_rows[a]
-            for b in range(n_cols):
+            for b in range(a if mirror else 0, n_cols):
                 total = 0.0
                 count = 0
                 for e in range(c_ptr[b], c_ptr[b + 1]):
@@ -982,7 +984,10 @@ def _coupling_update(
                 x = S[w, target, c_cols[b]] - total
                 x -= pw * np.floor(x * pi)
                 x = x + pw if x < 0.0 else x
-                S[w, target, c_cols[b]] = x - pw if x >= pw else x
+                x = x - pw if x >= pw else x
+                S[w, target, c_cols[b]] = x
+                if mirror:
+                    S[w, c_cols[b], target] = x
 
 
 def _reduce_inplace(X: Any, p: Any, pinv: Any) -> None:
