@@ -307,13 +307,10 @@ _CHECKED_PRIMES: set[int] = set()
 def _check_primes(primes: list[int]) -> list[int]:
     moduli: list[int] = []
     for q in primes:
+        if isinstance(q, bool) or not isinstance(q, int):
+            raise ValueError(f"Argument 'primes' must hold primes below {P_MAX}, not {q!r}.")
         if q not in _CHECKED_PRIMES:
-            if (
-                isinstance(q, bool)
-                or not isinstance(q, int)
-                or not 2 <= q < P_MAX
-                or any(q % s == 0 for s in range(2, int(q**0.5) + 1))
-            ):
+            if not 2 <= q < P_MAX or any(q % s == 0 for s in range(2, int(q**0.5) + 1)):
                 raise ValueError(f"Argument 'primes' must hold primes below {P_MAX}, not {q!r}.")
             _CHECKED_PRIMES.add(q)
         moduli.append(int(q))

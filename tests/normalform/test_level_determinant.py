@@ -98,6 +98,10 @@ def test_bad_input_raises() -> None:
         level_determinant([{0: 1}], [15])
     with pytest.raises(ValueError, match="primes"):
         level_determinant([{0: 1}], [P_MAX + 1])
+    with pytest.raises(ValueError, match="primes"):
+        level_determinant([{0: 1}], [[7]])  # type: ignore[list-item]
+    with pytest.raises(ValueError, match="primes"):
+        level_determinant([{0: 1}], [True])
 
 
 def test_trivial_sizes() -> None:
