@@ -22,7 +22,9 @@ inversion, whose work is batched float64 matrix products (BLAS).  They are exact
 prime is below ``P_MAX = 2^22``: a product of two residues is below ``2^44`` and a dot product of
 at most ``CHUNK = 512`` of them is below ``2^53``, the range where float64 holds integers exactly;
 longer inner dimensions are split into chunks and reduced between them.  Blocks of at most
-``BASE`` rows are inverted by a compiled Gauss--Jordan kernel with row pivoting, prime by prime.
+``BASE`` rows are inverted by a compiled Gauss--Jordan kernel that runs all primes in step (the
+primes are the innermost, vectorized loop); a prime meeting a zero pivot there is redone alone
+with row pivoting.
 When a leading half-block is singular modulo some prime, that prime's whole block is redone by
 the pivoting kernel, so only a Schur complement ``S_i`` that is itself singular modulo the prime
 stops the sweep.  That prime is then swept again alone, and a singular ``S_i`` is not eliminated
@@ -62,8 +64,8 @@ P_MAX = 1 << 22
 CHUNK = 512
 """Longest inner dimension of one exact float64 product: ``CHUNK * (P_MAX - 1)^2 < 2^53``."""
 
-BASE = 12
-"""Blocks up to this size are inverted by the compiled pivoting kernel."""
+BASE = 16
+"""Blocks up to this size are inverted by the compiled Gauss-Jordan kernels."""
 
 BASE_DETERMINANT = 32
 """Blocks up to this size get their determinant by compiled elimination, without inversion."""
@@ -582,13 +584,28 @@ class _Arithmetic:
         self.kernels.gauss_jordan(sub, self.p[which], self.pinv[which], inverse, det, good)
         return inverse, det, good
 
+    def _small_inverse(self, M: Any) -> tuple[Any, Any, Any]:
+        """Inverse of a small block: all primes together without pivoting, then the primes
+        that met a zero pivot again one by one with row pivoting."""
+        import numpy as np
+
+        W, size = M.shape[0], M.shape[1]
+        inverse = np.empty((W, size, size), dtype=np.float64)
+        det = np.empty(W, dtype=np.float64)
+        good = np.empty(W, dtype=np.bool_)
+        self.kernels.gauss_jordan_across(M, self.p, self.pinv, inverse, det, good)
+        if not good.all():
+            bad = np.flatnonzero(~good)
+            inverse[bad], det[bad], good[bad] = self._pivoting_inverse(M, bad)
+        return inverse, det, good
+
     def inverse(self, M: Any) -> tuple[Any, Any, Any]:
         """``(M^-1, det M, invertible)``; a prime not invertible has ``det 0``, a zero inverse."""
         import numpy as np
 
-        W, size = M.shape[0], M.shape[1]
+        size = M.shape[1]
         if size <= BASE:
-            return self._pivoting_inverse(M, np.arange(W))
+            return self._small_inverse(M)
         h = size // 2
         Ai, dA, okA, T1, Si, dS, okS = self._halves(M, h)
         F = self.negated(Si, T1)
@@ -678,6 +695,7 @@ def _kernels() -> Any:
             SimpleNamespace(
                 level_structure=jit(_level_structure),
                 gauss_jordan=jit(_gauss_jordan),
+                gauss_jordan_across=jit(_gauss_jordan_across),
                 gauss_determinant=jit(_gauss_determinant),
                 coupling_update=jit(_coupling_update),
                 reduce_inplace=jit(_reduce_inplace),
@@ -863,6 +881,84 @@ def _gauss_jordan(M: Any, p: Any, pinv: Any, inverse: Any, det: Any, good: Any) 
         for i in range(size):
             for j in range(size):
                 inverse[w, i, j] = work[i, j]
+
+
+def _gauss_jordan_across(M: Any, p: Any, pinv: Any, inverse: Any, det: Any, good: Any) -> None:
+    """Inverse and determinant of every ``M[w]`` modulo ``p[w]`` by in-place Gauss-Jordan
+    elimination without pivoting, all primes in step (the innermost loops run over the primes,
+    so they vectorize even for tiny blocks).  Pivot inverses are ``x^(p-2)`` (Fermat).  A prime
+    that meets a zero pivot gets ``good[w] = False`` (its other outputs are meaningless)."""
+    W = M.shape[0]
+    size = M.shape[1]
+    work = np.empty((size, size, W), dtype=np.float64)
+    for w in range(W):
+        for i in range(size):
+            for j in range(size):
+                work[i, j, w] = M[w, i, j]
+    exponent = np.empty(W, dtype=np.int64)
+    bits = 0
+    for w in range(W):
+        exponent[w] = np.int64(p[w]) - 2
+        while (exponent[w] >> bits) > 0:
+            bits += 1
+    d = np.ones(W, dtype=np.float64)
+    scale = np.empty(W, dtype=np.float64)
+    base = np.empty(W, dtype=np.float64)
+    factor = np.empty(W, dtype=np.float64)
+    for w in range(W):
+        good[w] = True
+    for c in range(size):
+        for w in range(W):
+            pivot = work[c, c, w]
+            if pivot == 0.0:
+                good[w] = False
+                pivot = 1.0
+            x = d[w] * pivot
+            x -= p[w] * np.floor(x * pinv[w])
+            x = x + p[w] if x < 0.0 else x
+            d[w] = x - p[w] if x >= p[w] else x
+            base[w] = pivot
+            scale[w] = 1.0
+        for bit in range(bits):
+            for w in range(W):
+                pw = p[w]
+                pi = pinv[w]
+                if (exponent[w] >> bit) & 1:
+                    x = scale[w] * base[w]
+                    x -= pw * np.floor(x * pi)
+                    x = x + pw if x < 0.0 else x
+                    scale[w] = x - pw if x >= pw else x
+                x = base[w] * base[w]
+                x -= pw * np.floor(x * pi)
+                x = x + pw if x < 0.0 else x
+                base[w] = x - pw if x >= pw else x
+        for w in range(W):
+            work[c, c, w] = 1.0
+        for j in range(size):
+            for w in range(W):
+                pw = p[w]
+                x = work[c, j, w] * scale[w]
+                x -= pw * np.floor(x * pinv[w])
+                x = x + pw if x < 0.0 else x
+                work[c, j, w] = x - pw if x >= pw else x
+        for i in range(size):
+            if i == c:
+                continue
+            for w in range(W):
+                factor[w] = work[i, c, w]
+                work[i, c, w] = 0.0
+            for j in range(size):
+                for w in range(W):
+                    pw = p[w]
+                    x = work[i, j, w] - factor[w] * work[c, j, w]
+                    x -= pw * np.floor(x * pinv[w])
+                    x = x + pw if x < 0.0 else x
+                    work[i, j, w] = x - pw if x >= pw else x
+    for w in range(W):
+        det[w] = d[w]
+        for i in range(size):
+            for j in range(size):
+                inverse[w, i, j] = work[i, j, w]
 
 
 def _gauss_determinant(M: Any, p: Any, pinv: Any, det: Any) -> None:
