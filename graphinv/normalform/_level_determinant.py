@@ -557,8 +557,7 @@ class _Arithmetic:
         return total
 
     def difference(self, M: Any, row: int, col: int, X: Any, Y: Any) -> Any:
-        """``(D - X @ Y) mod p`` for the block ``D`` of ``M`` at ``(row, col)`` (``M``
-        C-contiguous)."""
+        """``(D - X @ Y) mod p`` for the block ``D`` of ``M`` starting at ``(row, col)``."""
         T = self.product(X, Y)
         self.kernels.subtract_from(T, M, row, col, self.p, self.pinv)
         return T
@@ -570,6 +569,7 @@ class _Arithmetic:
         return T
 
     def reduced(self, X: Any, Y: Any) -> Any:
+        """``(X @ Y) mod p``."""
         T = self.product(X, Y)
         self.kernels.reduce_inplace(T, self.p, self.pinv)
         return T
@@ -1099,7 +1099,7 @@ def _reduce_inplace(X: Any, p: Any, pinv: Any) -> None:
 
 def _subtract_from(T: Any, M: Any, row: int, col: int, p: Any, pinv: Any) -> None:
     """``T <- (M[:, row:, col:] - T) mod p`` in place, for residues ``M`` and nonnegative
-    ``T < 2^53`` (both C-contiguous; the offsets keep the loops unit-stride)."""
+    ``T < 2^53`` (``T`` C-contiguous; offsets rather than a sliced ``M`` avoid a copy)."""
     for w in range(T.shape[0]):
         pw = p[w]
         pi = pinv[w]
