@@ -1099,17 +1099,21 @@ def _reduce_inplace(X: Any, p: Any, pinv: Any) -> None:
 
 def _subtract_from(T: Any, M: Any, row: int, col: int, p: Any, pinv: Any) -> None:
     """``T <- (M[:, row:, col:] - T) mod p`` in place, for residues ``M`` and nonnegative
-    ``T < 2^53`` (``T`` C-contiguous; offsets rather than a sliced ``M`` avoid a copy)."""
+    ``T < 2^53`` (``T`` C-contiguous; ``M`` may be a strided view, whose rows are first copied
+    to a buffer so that the arithmetic loop runs on unit-stride data)."""
+    buffer = np.empty(T.shape[2], dtype=np.float64)
     for w in range(T.shape[0]):
         pw = p[w]
         pi = pinv[w]
         for i in range(T.shape[1]):
             for j in range(T.shape[2]):
+                buffer[j] = M[w, row + i, col + j]
+            for j in range(T.shape[2]):
                 x = T[w, i, j]
                 x -= pw * np.floor(x * pi)
                 x = x + pw if x < 0.0 else x
                 x = x - pw if x >= pw else x
-                x = M[w, row + i, col + j] - x
+                x = buffer[j] - x
                 T[w, i, j] = x + pw if x < 0.0 else x
 
 
