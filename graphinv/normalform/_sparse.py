@@ -210,7 +210,8 @@ def _nearly_cyclic(live: list[dict[int, int]], columns: list[int]) -> bool:
     for line, row in zip(dense, live, strict=True):
         for j, v in row.items():
             line[position[j]] = v
-    return all(len(live) - flint.nmod_mat(dense, p).rank() <= NEARLY_CYCLIC for p in (2, 3))
+    matrix = flint.fmpz_mat(dense)  # one conversion; the reductions modulo p are in C
+    return all(len(live) - flint.nmod_mat(matrix, p).rank() <= NEARLY_CYCLIC for p in (2, 3))
 
 
 def extend_solution(reduction: UnitReduction, core_vector: list[int], n_columns: int) -> list[int]:
