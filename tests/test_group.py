@@ -489,3 +489,37 @@ def test_larger_graphs_agree_with_flint(build):
     G = build()
     K = critical_group(G)
     assert (K.invariant_factors, K.free_rank) == reference_cokernel(G, "flint")
+
+
+DIRECTED_GRAPHML = """<?xml version="1.0" encoding="UTF-8"?>
+<graphml xmlns="http://graphml.graphdrawing.org/xmlns">
+  <graph edgedefault="directed">
+    <node id="a"/><node id="b"/><node id="c"/>
+    <edge source="a" target="b"/><edge source="b" target="a"/>
+    <edge source="b" target="c"/><edge source="c" target="a"/><edge source="a" target="c"/>
+  </graph>
+</graphml>
+"""
+
+
+def test_directed_graphml_keeps_directions_with_a_sink(tmp_path, cli_runner):
+    # Worked by hand from Tutte's matrix-tree theorem (Tutte, Graph Theory, 1984, VI.28): into
+    # a, b goes to a or c and c must go to a: 2 arborescences, reduced Laplacian [[2,-1],[0,1]]
+    # (group Z/2); into c, [[2,-1],[-1,2]]: 3.  Without --sink the file is read undirected and
+    # antiparallel arcs are one edge: K_3, 3 spanning trees (Cayley 1889).
+    from graphinv.cli import app
+    from graphinv.io import read_graph
+
+    path = tmp_path / "arcs.graphml"
+    path.write_text(DIRECTED_GRAPHML)
+    D = read_graph(path, directed=True)
+    assert D.is_directed() and D.number_of_edges() == 5
+    assert critical_group(D, sink="a").invariant_factors == (2,)
+    assert spanning_tree_count(D, sink="c") == 3
+    result = cli_runner.invoke(app, ["group", str(path), "--sink", "a"])
+    assert result.exit_code == 0, result.output
+    assert "Z/2" in result.output and "2 spanning arborescences" in result.output
+    result = cli_runner.invoke(app, ["trees", str(path), "--sink", "c"])
+    assert result.output.strip().endswith("3")
+    result = cli_runner.invoke(app, ["trees", str(path)])
+    assert result.output.strip().endswith("3")

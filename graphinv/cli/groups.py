@@ -18,7 +18,12 @@ if TYPE_CHECKING:
 
 SinkOption = Annotated[
     str | None,
-    typer.Option("--sink", "-s", help="Sink vertex (required for directed graphs)."),
+    typer.Option(
+        "--sink",
+        "-s",
+        help="Sink vertex: a GraphML/GML file that declares directed edges keeps its "
+        "directions (out-degree Laplacian, sandpile group); ignored for undirected graphs.",
+    ),
 ]
 
 
@@ -57,7 +62,7 @@ def group(
     from graphinv.io import read_graphs
 
     records = []
-    for index, G in enumerate(read_graphs(source, format=format)):
+    for index, G in enumerate(read_graphs(source, format=format, directed=sink is not None)):
         K = critical_group(G, sink=_resolve_sink(G, sink))
         if jsonl:
             records.append({"name": _name(G, index), **K.to_record()})
@@ -89,7 +94,7 @@ def trees(
     from graphinv.io import read_graphs
 
     records = []
-    for index, G in enumerate(read_graphs(source, format=format)):
+    for index, G in enumerate(read_graphs(source, format=format, directed=sink is not None)):
         root = _resolve_sink(G, sink)
         count = spanning_tree_count(G, sink=root)
         record: dict[str, Any] = {"name": _name(G, index), "spanning_trees": str(count)}

@@ -302,7 +302,9 @@ def _is_family_source(source: GraphSourceLike) -> bool:
     return name in family_names() or not ("/" in source or infer_format(source) is not None)
 
 
-def _items(source: GraphSourceLike, format: str | None) -> Iterator[_Item]:
+def _items(
+    source: GraphSourceLike, format: str | None, directed: bool = False
+) -> Iterator[_Item]:
     """Check the source now (format, file, family name), then read it lazily."""
     fmt = _check_format(format)
     if _is_family_source(source):
@@ -311,7 +313,7 @@ def _items(source: GraphSourceLike, format: str | None) -> Iterator[_Item]:
         return _family_items(source)
     if isinstance(source, (str, os.PathLike)) and os.fspath(source) != "-":
         _opened(source, fmt)[0].close()  # a missing file or a directory fails here
-    return _file_items(source, fmt)
+    return _file_items(source, fmt, directed)
 
 
 def _family_items(spec: str) -> Iterator[_Item]:
@@ -319,7 +321,9 @@ def _family_items(spec: str) -> Iterator[_Item]:
         yield _Item(index, None, G.graph["name"], G, None)
 
 
-def _file_items(source: GraphSourceLike, fmt: str | None) -> Iterator[_Item]:
+def _file_items(
+    source: GraphSourceLike, fmt: str | None, directed: bool = False
+) -> Iterator[_Item]:
     stream, label, stem, suffix_format = _opened(source, fmt)
     owned = stream is not sys.stdin and isinstance(source, (str, os.PathLike))
     path = Path(label) if owned else None
@@ -331,7 +335,7 @@ def _file_items(source: GraphSourceLike, fmt: str | None) -> Iterator[_Item]:
         if chosen in _STREAMED:
             yield from _coded_items(lines, label, stem)
         else:
-            yield _single_item(chosen, lines, label, stem)
+            yield _single_item(chosen, lines, label, stem, directed)
     finally:
         if owned:
             stream.close()
@@ -376,14 +380,16 @@ def _coded_items(lines: Iterable[str], label: str, stem: str) -> Iterator[_Item]
         yield _Item(index, number, name, G, None)
 
 
-def _single_item(fmt: str, lines: Iterator[str], label: str, stem: str) -> _Item:
+def _single_item(
+    fmt: str, lines: Iterator[str], label: str, stem: str, directed: bool = False
+) -> _Item:
     try:
         if fmt == "edges":
             G = parse_edgelist(lines, source=label)
         elif fmt == "matrix":
             G = parse_adjacency_matrix(lines, source=label)
         else:
-            G = _parse_with_networkx(fmt, "".join(lines), label)
+            G = _parse_with_networkx(fmt, "".join(lines), label, directed)
     except GraphFormatError as exc:
         return _Item(0, exc.line, stem, None, exc)
     G.graph["name"] = stem
@@ -391,7 +397,7 @@ def _single_item(fmt: str, lines: Iterator[str], label: str, stem: str) -> _Item
     return _Item(0, None, stem, G, None)
 
 
-def _parse_with_networkx(fmt: str, text: str, label: str) -> nx.Graph:
+def _parse_with_networkx(fmt: str, text: str, label: str, directed: bool = False) -> nx.Graph:
     if not text.strip():
         raise GraphFormatError("no graph found (the file is empty)", source=label)
     try:
@@ -410,16 +416,18 @@ def _parse_with_networkx(fmt: str, text: str, label: str) -> nx.Graph:
             source=label,
             line=line,
         ) from None
-    return _from_networkx(H, label)
+    return _from_networkx(H, label, directed)
 
 
-def _from_networkx(H: nx.Graph, label: str) -> nx.Graph:
-    """A ``Graph`` with integer multiplicities from any networkx graph read from ``label``."""
-    if H.is_directed():
+def _from_networkx(H: nx.Graph, label: str, directed: bool = False) -> nx.Graph:
+    """A ``Graph`` with integer multiplicities from any networkx graph read from ``label``; a
+    ``DiGraph`` when ``directed`` is asked for and the file declares its edges directed."""
+    keep = directed and H.is_directed()
+    if H.is_directed() and not keep:
         warnings.warn(
             f"{label}: directed graph read as undirected (edge directions ignored)", stacklevel=4
         )
-    G = nx.Graph()
+    G = nx.DiGraph() if keep else nx.Graph()
     rename = {v: parse_label(v) if isinstance(v, str) else v for v in H}
     G.add_nodes_from(rename.values())
     loops = 0
@@ -433,7 +441,7 @@ def _from_networkx(H: nx.Graph, label: str) -> nx.Graph:
             m = as_multiplicity(data.get("weight", 1), edge=(a, b))
         except InvalidWeightError as exc:
             raise GraphFormatError(str(exc), source=label) from None
-        if H.is_directed() and not H.is_multigraph():
+        if H.is_directed() and not H.is_multigraph() and not keep:
             # An antiparallel pair u->v, v->u is one undirected edge, not two.
             if (b, a) in seen_directed:
                 continue
@@ -451,7 +459,9 @@ def _from_networkx(H: nx.Graph, label: str) -> nx.Graph:
     return G
 
 
-def read_graphs(source: GraphSourceLike, *, format: str | None = None) -> Iterator[nx.Graph]:
+def read_graphs(
+    source: GraphSourceLike, *, format: str | None = None, directed: bool = False
+) -> Iterator[nx.Graph]:
     """Read every graph of a source, lazily.
 
     Parameters
@@ -461,6 +471,10 @@ def read_graphs(source: GraphSourceLike, *, format: str | None = None) -> Iterat
     format : str, optional
         One of ``edges``, ``graph6``, ``sparse6``, ``graphml``, ``gml``, ``matrix``; by default
         from the suffix, or guessed from the first line.
+    directed : bool
+        Keep the directions of a GraphML or GML file that declares its edges directed (a
+        ``DiGraph`` with ``weight`` multiplicities, for the sandpile group with a sink).  By
+        default, and for the other formats, graphs are undirected.
 
     Yields
     ------
@@ -486,7 +500,7 @@ def read_graphs(source: GraphSourceLike, *, format: str | None = None) -> Iterat
     ----------
     B. D. McKay, formats.txt (graph6 and sparse6).
     """
-    return _graphs(_items(source, format))
+    return _graphs(_items(source, format, directed))
 
 
 def _graphs(items: Iterator[_Item]) -> Iterator[nx.Graph]:
@@ -543,8 +557,10 @@ def _count_graphs(source: GraphSourceLike, format: str | None, rest: Iterator[_I
     return 2 + sum(1 for _ in rest)
 
 
-def read_graph(source: GraphSourceLike, *, format: str | None = None) -> nx.Graph:
-    """Read exactly one graph.
+def read_graph(
+    source: GraphSourceLike, *, format: str | None = None, directed: bool = False
+) -> nx.Graph:
+    """Read exactly one graph (``directed`` as in :func:`read_graphs`).
 
     Raises
     ------
@@ -565,7 +581,7 @@ def read_graph(source: GraphSourceLike, *, format: str | None = None) -> nx.Grap
     ----------
     B. D. McKay, formats.txt (graph6 and sparse6).
     """
-    items = _items(source, format)
+    items = _items(source, format, directed)
     first = next(items)
     if first.error is not None:
         raise first.error
