@@ -6,6 +6,8 @@ Format
 - ``m`` is a positive integer multiplicity (default 1); an edge listed again adds up.
 - A line with a single label declares a vertex (so isolated vertices survive the round trip).
 - ``#`` starts a comment, at the start of a line or after the fields; blank lines are skipped.
+- A first line made only of column names (``source,target,weight``, ``from to``, ``node1
+  node2``...: the words in ``HEADER_WORDS``, any case) is a header and is skipped.
 - A label that reads as an integer (``7``, ``-3``) becomes an ``int``; any other is a ``str``.
 - A loop ``v v`` does not change a Laplacian; it is dropped with a warning naming the line
   (its vertex is kept).
@@ -31,6 +33,12 @@ from graphinv._graphs import weighted_edges
 from graphinv.errors import GraphFormatError, InvalidGraphError
 
 __all__ = ["parse_edgelist", "parse_label", "write_edgelist"]
+
+HEADER_WORDS = frozenset(
+    {"source", "target", "from", "to", "src", "dst", "tail", "head", "node1", "node2",
+     "node_1", "node_2", "vertex1", "vertex2", "weight", "multiplicity", "count"}
+)
+"""Column names that make a first line a header (CSV exports of edge tables)."""
 
 _SEPARATORS = re.compile(r"[\s,]+")
 _INTEGER = re.compile(r"[+-]?\d+")
@@ -95,6 +103,8 @@ def parse_edgelist(lines: Iterable[str], *, source: str = "<string>") -> nx.Grap
     >>> G = parse_edgelist(["# campus fibre", "hall lab", "lab 3 2", "3,hall", "depot"])
     >>> list(G), G["lab"][3]["weight"]
     (['hall', 'lab', 3, 'depot'], 2)
+    >>> list(parse_edgelist(["source,target,weight", "hall,lab,2"]).edges(data="weight"))
+    [('hall', 'lab', 2)]
     >>> parse_edgelist(["a b 0"], source="links.txt")
     Traceback (most recent call last):
     ...
@@ -106,10 +116,15 @@ def parse_edgelist(lines: Iterable[str], *, source: str = "<string>") -> nx.Grap
     """
     vertices: dict[Hashable, None] = {}  # insertion-ordered set: order of first mention
     weights: dict[tuple[Hashable, Hashable], int] = {}
+    first = True
     for number, line in enumerate(lines, start=1):
         fields = _fields(line)
         if not fields:
             continue
+        if first:
+            first = False
+            if len(fields) > 1 and all(f.lower() in HEADER_WORDS for f in fields):
+                continue  # a header row of column names
         if len(fields) == 1:
             vertices[parse_label(fields[0])] = None
             continue

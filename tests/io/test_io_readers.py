@@ -392,3 +392,17 @@ def test_source_problems_are_reported_before_iteration(tmp_path):
         read_graphs("blob:4")
     with pytest.raises(GraphFormatError, match="unknown format"):
         read_graphs("cycle:4", format="dot")
+
+
+@pytest.mark.parametrize(
+    "header", ["source,target", "Source,Target,Weight", "from to", "node1\tnode2\tcount"]
+)
+def test_edge_list_header_row_is_skipped(tmp_path, header):
+    # Column-name rows of CSV exports (common practice); a later row of the same words, or a
+    # first row with a real label, stays an edge.
+    path = tmp_path / "links.csv"
+    path.write_text(f"{header}\nhall,lab\nlab,gym\n")
+    G = read_graph(path)
+    assert sorted(G, key=str) == ["gym", "hall", "lab"]
+    path.write_text("source,hall\nhall,lab\n")
+    assert "source" in read_graph(path)
