@@ -1,26 +1,27 @@
 """Determinants of dense integer matrices modulo many word-size primes at once.
 
 The matrix is reduced modulo every prime into one array of shape ``(W, k, k)`` of float64
-residues (one ``k x k`` matrix per prime), and all ``W`` matrices are factored together by a
-recursive LU decomposition with row pivoting (Toledo's recursive formulation of the blocked
-right-looking LU): the column range ``[c0, c1)`` of the active rows is split in two halves; the
-left half is factored recursively, the top block of the right half is solved against the unit
-lower triangle (``U12 = L11^{-1} A12``, itself recursive), the rest of the right half receives
-the Schur complement update ``A22 <- A22 - L21 U12`` and is factored recursively.  Almost all the
-work is in the updates, which are batched float64 matrix products (BLAS, one per prime) followed
-by one reduction modulo each prime.  They are exact because every prime is below
-``P_MAX = 2^22``: a product of two residues is below ``2^44`` and a dot product of at most
-``CHUNK = 512`` of them is below ``2^53``, the range where float64 holds integers exactly;
-longer inner dimensions are split into chunks of ``CHUNK``.
+residues (one ``k x k`` matrix per prime).  Each matrix is then factored by a recursive LU
+decomposition with row pivoting (Toledo's recursive formulation of the blocked right-looking
+LU): the column range ``[c0, c1)`` of the active rows is split in two halves; the left half is
+factored recursively, the top block of the right half is solved against the unit lower triangle
+(``U12 = L11^{-1} A12``, itself recursive), the rest of the right half receives the Schur
+complement update ``A22 <- A22 - L21 U12`` and is factored recursively.  Almost all the work is
+in the updates: float64 matrix products (BLAS, through numba's ``np.dot``) followed by one
+reduction modulo the prime.  They are exact because every prime is below ``P_MAX = 2^22``: a
+product of two residues is below ``2^44`` and a dot product of at most ``CHUNK = 512`` of them
+is below ``2^53``, the range where float64 holds integers exactly; longer inner dimensions are
+split into chunks of ``CHUNK``.  The whole recursion of one prime runs compiled (on an explicit
+stack), one prime after another, so that a prime's matrix stays in the processor's cache.
 
-Panels of at most ``BASE`` columns are factored by a compiled kernel, one prime after another:
-the pivot is the first row of the active part whose entry in the pivot column is nonzero modulo
-the prime (exact arithmetic needs no numerical pivoting), a row swap is applied to the whole
-row and flips the sign of the determinant.  A column with no nonzero entry in the active part
-means the matrix is singular modulo that prime: its residue is 0 (a correct value, not a
-failure), and that prime is skipped by the rest of the factorization.  Inside a panel the
-rank-one updates are not reduced (at most ``BASE`` of them, each below ``2^44``, stay below
-``2^53``); an entry is reduced when its column becomes the pivot column or its row the pivot row.
+Panels of at most ``BASE`` columns are factored by a compiled kernel: the pivot is the first row
+of the active part whose entry in the pivot column is nonzero modulo the prime (exact arithmetic
+needs no numerical pivoting); a row swap is applied to the whole row and flips the sign of the
+determinant.  A column with no nonzero entry in the active part means the matrix is singular
+modulo that prime: its residue is 0 (a correct value, not a failure) and the factorization of
+that prime stops.  Inside a panel the rank-one updates are not reduced (at most ``BASE`` of
+them, each below ``2^44``, stay below ``2^53``); an entry is reduced when its column becomes the
+pivot column or its row the pivot row.
 
 Entries are reduced modulo the primes without a Python operation per entry and prime: each
 integer is split into 16-bit limbs (two's complement, the top limb signed), and the residues are
@@ -46,13 +47,14 @@ from graphinv.normalform._matrix import InvalidMatrixError, as_int_rows
 
 __all__ = ["BASE", "MEMORY_BUDGET", "dense_determinants"]
 
-BASE = 16
+BASE = 8
 """Panels of at most this many columns are factored by the compiled kernel."""
 
 MEMORY_BUDGET = 1 << 29
 """Bytes of residue storage aimed at: primes are processed in batches to stay near it."""
 
 _KERNELS: list[Any] = []
+_THREAD_SETTERS: list[list[Any]] = []
 np: Any = None  # numpy, bound on first use: the compiled kernels read it as a global
 _CHECKED_PRIMES: set[int] = set()
 
@@ -114,15 +116,49 @@ def dense_determinants(rows: list[list[int]], primes: list[int]) -> list[int | N
         return []
     if k == 0:
         return [1 % q for q in moduli]
-    # The (W, k, k) residues plus the product temporaries (at most about a quarter of that).
-    batch = max(1, int(MEMORY_BUDGET // (8 * 1.3 * k * k)))
+    # The (W, k, k) residues; a prime's products need only about one more k x k matrix.
+    batch = max(1, MEMORY_BUDGET // (8 * k * k) - 2)
     result: list[int | None] = []
-    for start in range(0, len(moduli), batch):
-        chunk = moduli[start : start + batch]
-        p = np.array(chunk, dtype=np.float64)
-        A = _residues(checked, chunk, k)
-        result.extend(_factor(A, p))
+    kernels = _kernels()
+    setters = _blas_thread_setters()
+    # A prime's products are moderate; BLAS threads would mostly wait on a busy machine.
+    previous = [set_threads(1) for set_threads in setters]
+    try:
+        for start in range(0, len(moduli), batch):
+            chunk = moduli[start : start + batch]
+            p = np.array(chunk, dtype=np.float64)
+            det = np.empty(len(chunk), dtype=np.float64)
+            kernels.determinants_by_prime(_residues(checked, chunk, k), p, 1.0 / p, det)
+            result.extend(int(d) for d in det.tolist())
+    finally:
+        for set_threads, count in zip(setters, previous, strict=True):
+            set_threads(count)
     return result
+
+
+def _blas_thread_setters() -> list[Any]:
+    """``openblas_set_num_threads_local`` of each OpenBLAS loaded in the process (SciPy's is the
+    one behind numba's ``np.dot``); empty where none can be found.  Each sets the number of
+    threads used by calls from the current thread only and returns the previous number."""
+    if not _THREAD_SETTERS:
+        import ctypes
+
+        import scipy.linalg.cython_blas  # noqa: F401  (loads the library numba calls)
+
+        setters: list[Any] = []
+        try:
+            with open("/proc/self/maps") as maps:
+                paths = {line.split()[-1] for line in maps if "openblas" in line.lower()}
+            for path in sorted(paths):
+                function = getattr(ctypes.CDLL(path), "openblas_set_num_threads_local", None)
+                if function is not None:
+                    function.restype = ctypes.c_int
+                    function.argtypes = [ctypes.c_int]
+                    setters.append(function)
+        except OSError:
+            setters = []
+        _THREAD_SETTERS.append(setters)
+    return list(_THREAD_SETTERS[0])
 
 
 def _check_primes(primes: list[int]) -> list[int]:
@@ -214,51 +250,6 @@ def _limb_table(primes: list[int], bits: int, count: int) -> Any:
     return table
 
 
-def _factor(A: Any, p: Any) -> list[int | None]:
-    """Determinants of ``A[w]`` modulo ``p[w]``; ``A`` (residues) is overwritten."""
-    import numpy as np
-
-    kernels = _kernels()
-    W, k = A.shape[0], A.shape[1]
-    pinv = 1.0 / p
-    det = np.ones(W, dtype=np.float64)
-    alive = np.ones(W, dtype=np.bool_)
-
-    def update(r0: int, c0: int, c1: int, inner0: int, inner1: int) -> None:
-        # A[r0:, c0:c1] -= A[r0:, inner0:inner1] @ A[inner0:inner1, c0:c1]  (mod p)
-        for s in range(inner0, inner1, CHUNK):
-            e = min(inner1, s + CHUNK)
-            product = np.matmul(A[:, r0:, s:e], A[:, s:e, c0:c1])
-            kernels.subtract_reduce(A, product, r0, c0, p, pinv, alive)
-
-    def solve(r0: int, r1: int, c0: int, c1: int) -> None:
-        # A[r0:r1, c0:c1] <- L^{-1} A[r0:r1, c0:c1], L the unit lower triangle of A[r0:r1, r0:r1]
-        if r1 - r0 <= BASE:
-            kernels.lower_solve(A, r0, r1, c0, c1, p, pinv, alive)
-            return
-        m = r0 + (r1 - r0) // 2
-        solve(r0, m, c0, c1)
-        for s in range(r0, m, CHUNK):
-            e = min(m, s + CHUNK)
-            product = np.matmul(A[:, m:r1, s:e], A[:, s:e, c0:c1])
-            kernels.subtract_reduce(A, product, m, c0, p, pinv, alive)
-        solve(m, r1, c0, c1)
-
-    def factor(c0: int, c1: int) -> None:
-        # LU with row pivoting of the panel A[c0:, c0:c1]; swaps are applied to whole rows.
-        if c1 - c0 <= BASE:
-            kernels.panel(A, c0, c1, p, pinv, det, alive)
-            return
-        m = c0 + (c1 - c0) // 2
-        factor(c0, m)
-        solve(c0, m, m, c1)
-        update(m, m, c1, c0, m)
-        factor(m, c1)
-
-    factor(0, k)
-    return [int(d) if good else 0 for d, good in zip(det.tolist(), alive.tolist(), strict=True)]
-
-
 def _kernels() -> Any:
     """The compiled kernels (numba, cached on disk after the first compilation)."""
     global np
@@ -269,13 +260,16 @@ def _kernels() -> Any:
         import numpy as np
 
         jit = numba.njit(cache=True)
+        # The single-prime kernels call each other: each is bound, compiled, under its name.
+        global _panel_one, _solve_one, _update_one
+        _panel_one = jit(_panel_one)
+        _solve_one = jit(_solve_one)
+        _update_one = jit(_update_one)
         _KERNELS.append(
             SimpleNamespace(
                 combine_words=jit(_combine_words),
                 add_reduce=jit(_add_reduce),
-                panel=jit(_panel),
-                lower_solve=jit(_lower_solve),
-                subtract_reduce=jit(_subtract_reduce),
+                determinants_by_prime=jit(_determinants_by_prime),
             )
         )
     return _KERNELS[0]
@@ -315,126 +309,201 @@ def _add_reduce(A: Any, start: int, part: Any, p: Any, pinv: Any) -> None:
             A[w, start + j] = x - pw if x >= pw else x
 
 
-def _subtract_reduce(A: Any, T: Any, r0: int, c0: int, p: Any, pinv: Any, alive: Any) -> None:
-    """``A[w, r0 + i, c0 + j] <- (A[w, r0 + i, c0 + j] - T[w, i, j]) mod p[w]`` for live primes
-    (``0 <= T < 2^53``)."""
-    for w in range(T.shape[0]):
-        if not alive[w]:
-            continue
-        pw = p[w]
-        pi = pinv[w]
-        for i in range(T.shape[1]):
-            for j in range(T.shape[2]):
-                x = A[w, r0 + i, c0 + j] - T[w, i, j]
-                x -= pw * np.floor(x * pi)
-                x = x + pw if x < 0.0 else x
-                A[w, r0 + i, c0 + j] = x - pw if x >= pw else x
+# Single-prime kernels: the whole recursion for one prime runs compiled, its matrix stays in
+# the processor's cache, and the products go to BLAS through numba's ``np.dot``.
 
 
-def _lower_solve(A: Any, r0: int, r1: int, c0: int, c1: int, p: Any, pinv: Any, alive: Any) -> None:
-    """``A[r0:r1, c0:c1] <- L^{-1} A[r0:r1, c0:c1]`` modulo each live prime, ``L`` the unit lower
-    triangle of ``A[r0:r1, r0:r1]`` (forward substitution; a row takes at most ``BASE``
-    unreduced updates and is reduced before it is used)."""
-    for w in range(A.shape[0]):
-        if not alive[w]:
-            continue
-        pw = p[w]
-        pi = pinv[w]
-        for i in range(r0 + 1, r1):
-            for t in range(r0, i):
-                f = A[w, i, t]
-                if f == 0.0:
-                    continue
-                for j in range(c0, c1):
-                    A[w, i, j] -= f * A[w, t, j]
-            for j in range(c0, c1):
-                x = A[w, i, j]
-                x -= pw * np.floor(x * pi)
-                x = x + pw if x < 0.0 else x
-                A[w, i, j] = x - pw if x >= pw else x
-
-
-def _panel(A: Any, c0: int, c1: int, p: Any, pinv: Any, det: Any, alive: Any) -> None:
-    """LU with row pivoting of ``A[w, c0:, c0:c1]`` modulo ``p[w]`` for each live prime, in place
-    (multipliers below the diagonal, ``U`` on and above it); row swaps are applied to whole rows
-    and the pivots multiplied into ``det[w]``.  A pivot column without a nonzero entry makes the
-    matrix singular modulo ``p[w]``: ``det[w] = 0`` and ``alive[w] = False``.
-
-    The panel is worked on transposed in a buffer, so that the rank-one updates run along
-    contiguous columns of any length."""
-    k = A.shape[1]
+def _panel_one(M: Any, c0: int, c1: int, pw: float, pi: float, P: Any) -> float:
+    """LU with row pivoting of ``M[c0:, c0:c1]`` modulo ``pw`` in place (multipliers below the
+    diagonal, ``U`` on and above it; swaps applied to whole rows).  Returns the product of the
+    pivots times the sign of the swaps modulo ``pw``, or 0 when a pivot column has no nonzero
+    entry (``M`` is then singular modulo ``pw`` and is left unfinished).  The panel is worked on
+    transposed in the buffer ``P``, so that the rank-one updates run along contiguous columns."""
+    k = M.shape[0]
     rows = k - c0
     width = c1 - c0
-    P = np.empty((width, rows), dtype=np.float64)
-    for w in range(A.shape[0]):
-        if not alive[w]:
-            continue
-        pw = p[w]
-        pi = pinv[w]
-        d = det[w]
-        for i in range(rows):
-            for j in range(width):
-                P[j, i] = A[w, c0 + i, c0 + j]
-        for c in range(width):
-            r = -1
-            for i in range(c, rows):
-                x = P[c, i]
-                x -= pw * np.floor(x * pi)
-                x = x + pw if x < 0.0 else x
-                x = x - pw if x >= pw else x
-                P[c, i] = x
-                if r < 0 and x != 0.0:
-                    r = i
-            if r < 0:
-                d = 0.0
-                alive[w] = False
-                break
-            if r != c:
-                for j in range(width):
-                    t = P[j, r]
-                    P[j, r] = P[j, c]
-                    P[j, c] = t
-                for j in range(k):
-                    if c0 <= j < c1:
-                        continue
-                    t = A[w, c0 + r, j]
-                    A[w, c0 + r, j] = A[w, c0 + c, j]
-                    A[w, c0 + c, j] = t
-                d = pw - d
-            for j in range(c + 1, width):
-                x = P[j, c]
-                x -= pw * np.floor(x * pi)
-                x = x + pw if x < 0.0 else x
-                P[j, c] = x - pw if x >= pw else x
-            pivot = P[c, c]
-            x = d * pivot
+    d = 1.0
+    for i in range(rows):
+        for j in range(width):
+            P[j, i] = M[c0 + i, c0 + j]
+    for c in range(width):
+        for i in range(c, rows):
+            x = P[c, i]
             x -= pw * np.floor(x * pi)
             x = x + pw if x < 0.0 else x
-            d = x - pw if x >= pw else x
-            # Inverse of the pivot by the extended Euclidean algorithm.
-            a = np.int64(pivot)
-            m = np.int64(pw)
-            s0 = np.int64(1)
-            s1 = np.int64(0)
-            while m != 0:
-                q = a // m
-                a, m = m, a - q * m
-                s0, s1 = s1, s0 - q * s1
-            scale = float(s0 % np.int64(pw))
+            P[c, i] = x - pw if x >= pw else x
+        r = -1
+        for i in range(c, rows):
+            if P[c, i] != 0.0:
+                r = i
+                break
+        if r < 0:
+            return 0.0
+        if r != c:
+            for j in range(width):
+                t = P[j, r]
+                P[j, r] = P[j, c]
+                P[j, c] = t
+            for j in range(k):
+                if c0 <= j < c1:
+                    continue
+                t = M[c0 + r, j]
+                M[c0 + r, j] = M[c0 + c, j]
+                M[c0 + c, j] = t
+            d = pw - d
+        for j in range(c + 1, width):
+            x = P[j, c]
+            x -= pw * np.floor(x * pi)
+            x = x + pw if x < 0.0 else x
+            P[j, c] = x - pw if x >= pw else x
+        pivot = P[c, c]
+        x = d * pivot
+        x -= pw * np.floor(x * pi)
+        x = x + pw if x < 0.0 else x
+        d = x - pw if x >= pw else x
+        # Inverse of the pivot by the extended Euclidean algorithm.
+        a = np.int64(pivot)
+        m = np.int64(pw)
+        s0 = np.int64(1)
+        s1 = np.int64(0)
+        while m != 0:
+            q = a // m
+            a, m = m, a - q * m
+            s0, s1 = s1, s0 - q * s1
+        scale = float(s0 % np.int64(pw))
+        for i in range(c + 1, rows):
+            x = P[c, i] * scale
+            x -= pw * np.floor(x * pi)
+            x = x + pw if x < 0.0 else x
+            P[c, i] = x - pw if x >= pw else x
+        for j in range(c + 1, width):
+            u = P[j, c]
+            if u == 0.0:
+                continue
             for i in range(c + 1, rows):
-                x = P[c, i] * scale
+                P[j, i] -= u * P[c, i]
+    for i in range(rows):
+        for j in range(width):
+            M[c0 + i, c0 + j] = P[j, i]
+    return d
+
+
+def _solve_one(M: Any, r0: int, r1: int, c0: int, c1: int, pw: float, pi: float) -> None:
+    """``M[r0:r1, c0:c1] <- L^{-1} M[r0:r1, c0:c1]`` modulo ``pw``, ``L`` the unit lower triangle
+    of ``M[r0:r1, r0:r1]`` (forward substitution; a row takes at most ``BASE`` unreduced
+    updates and is reduced before it is used)."""
+    for i in range(r0 + 1, r1):
+        for t in range(r0, i):
+            f = M[i, t]
+            if f == 0.0:
+                continue
+            for j in range(c0, c1):
+                M[i, j] -= f * M[t, j]
+        for j in range(c0, c1):
+            x = M[i, j]
+            x -= pw * np.floor(x * pi)
+            x = x + pw if x < 0.0 else x
+            M[i, j] = x - pw if x >= pw else x
+
+
+def _update_one(
+    M: Any, r0: int, r1: int, c0: int, c1: int, i0: int, i1: int, pw: float, pi: float
+) -> None:
+    """``M[r0:r1, c0:c1] <- (M[r0:r1, c0:c1] - M[r0:r1, i0:i1] M[i0:i1, c0:c1]) mod pw``, the
+    product by BLAS in float64, ``CHUNK`` inner indices at a time (each partial product of
+    residues is then below ``2^53``, exact)."""
+    for s in range(i0, i1, CHUNK):
+        e = min(i1, s + CHUNK)
+        T = np.dot(np.ascontiguousarray(M[r0:r1, s:e]), np.ascontiguousarray(M[s:e, c0:c1]))
+        for i in range(r1 - r0):
+            for j in range(c1 - c0):
+                x = M[r0 + i, c0 + j] - T[i, j]
                 x -= pw * np.floor(x * pi)
                 x = x + pw if x < 0.0 else x
-                P[c, i] = x - pw if x >= pw else x
-            for j in range(c + 1, width):
-                u = P[j, c]
-                if u == 0.0:
+                M[r0 + i, c0 + j] = x - pw if x >= pw else x
+
+
+def _determinants_by_prime(A: Any, p: Any, pinv: Any, det: Any) -> None:
+    """``det[w] <- det(A[w]) mod p[w]`` by the recursive LU of the module docstring, one prime
+    after another; ``A`` is overwritten.  The recursion runs on an explicit stack of tasks:
+    ``(0, c0, c1)`` factor the panel ``[c0, c1)``; ``(1, r0, r1, c0, c1)`` triangular solve;
+    ``(2, r0, r1, c0, c1, i0, i1)`` Schur complement update."""
+    k = A.shape[1]
+    P = np.empty((BASE, k), dtype=np.float64)
+    stack = np.empty((8 * 64 + 16, 7), dtype=np.int64)
+    for w in range(A.shape[0]):
+        M = A[w]
+        pw = p[w]
+        pi = pinv[w]
+        d = 1.0
+        top = 0
+        stack[0, 0] = 0
+        stack[0, 1] = 0
+        stack[0, 2] = k
+        top = 1
+        while top > 0:
+            top -= 1
+            kind = stack[top, 0]
+            a0 = stack[top, 1]
+            a1 = stack[top, 2]
+            if kind == 0:
+                if a1 - a0 <= BASE:
+                    f = _panel_one(M, a0, a1, pw, pi, P)
+                    x = d * f
+                    x -= pw * np.floor(x * pi)
+                    x = x + pw if x < 0.0 else x
+                    d = x - pw if x >= pw else x
+                    if d == 0.0:
+                        break
                     continue
-                for i in range(c + 1, rows):
-                    P[j, i] -= u * P[c, i]
+                m = a0 + (a1 - a0) // 2
+                # Pushed in reverse order of execution.
+                stack[top, 0] = 0
+                stack[top, 1] = m
+                stack[top, 2] = a1
+                stack[top + 1, 0] = 2
+                stack[top + 1, 1] = m
+                stack[top + 1, 2] = k
+                stack[top + 1, 3] = m
+                stack[top + 1, 4] = a1
+                stack[top + 1, 5] = a0
+                stack[top + 1, 6] = m
+                stack[top + 2, 0] = 1
+                stack[top + 2, 1] = a0
+                stack[top + 2, 2] = m
+                stack[top + 2, 3] = m
+                stack[top + 2, 4] = a1
+                stack[top + 3, 0] = 0
+                stack[top + 3, 1] = a0
+                stack[top + 3, 2] = m
+                top += 4
+            elif kind == 1:
+                c0 = stack[top, 3]
+                c1 = stack[top, 4]
+                if a1 - a0 <= BASE:
+                    _solve_one(M, a0, a1, c0, c1, pw, pi)
+                    continue
+                m = a0 + (a1 - a0) // 2
+                stack[top, 0] = 1
+                stack[top, 1] = m
+                stack[top, 2] = a1
+                stack[top, 3] = c0
+                stack[top, 4] = c1
+                stack[top + 1, 0] = 2
+                stack[top + 1, 1] = m
+                stack[top + 1, 2] = a1
+                stack[top + 1, 3] = c0
+                stack[top + 1, 4] = c1
+                stack[top + 1, 5] = a0
+                stack[top + 1, 6] = m
+                stack[top + 2, 0] = 1
+                stack[top + 2, 1] = a0
+                stack[top + 2, 2] = m
+                stack[top + 2, 3] = c0
+                stack[top + 2, 4] = c1
+                top += 3
+            else:
+                _update_one(
+                    M, a0, a1, stack[top, 3], stack[top, 4], stack[top, 5], stack[top, 6], pw, pi
+                )
         det[w] = d
-        if not alive[w]:
-            continue
-        for i in range(rows):
-            for j in range(width):
-                A[w, c0 + i, c0 + j] = P[j, i]
