@@ -53,6 +53,9 @@ BASE = 8
 MEMORY_BUDGET = 1 << 29
 """Bytes of residue storage aimed at: primes are processed in batches to stay near it."""
 
+MAX_WORKERS = 4
+"""At most this many threads factor matrices modulo different primes at the same time."""
+
 _KERNELS: list[Any] = []
 _THREAD_SETTERS: list[list[Any]] = []
 np: Any = None  # numpy, bound on first use: the compiled kernels read it as a global
@@ -116,24 +119,59 @@ def dense_determinants(rows: list[list[int]], primes: list[int]) -> list[int | N
         return []
     if k == 0:
         return [1 % q for q in moduli]
-    # The (W, k, k) residues; a prime's products need only about one more k x k matrix.
-    batch = max(1, MEMORY_BUDGET // (8 * k * k) - 2)
+    # The (W, k, k) residues; a prime's products need only about one more k x k matrix each.
+    workers = _worker_count(k)
+    batch = max(1, MEMORY_BUDGET // (8 * k * k) - 2 * workers)
     result: list[int | None] = []
-    kernels = _kernels()
+    for start in range(0, len(moduli), batch):
+        chunk = moduli[start : start + batch]
+        p = np.array(chunk, dtype=np.float64)
+        det = np.empty(len(chunk), dtype=np.float64)
+        A = _residues(checked, chunk, k)
+        # The primes are independent: each worker thread takes a share of them (the compiled
+        # kernel releases the GIL), with single-threaded BLAS.
+        shares = [range(len(chunk))[w :: workers] for w in range(min(workers, len(chunk)))]
+        spans = [(share.start, share.start + len(share) * share.step, share.step) for share in shares]
+        if len(spans) == 1:
+            _factor_primes(A, p, det, spans[0])
+        else:
+            from concurrent.futures import ThreadPoolExecutor
+            from functools import partial
+
+            with ThreadPoolExecutor(max_workers=len(spans)) as pool:
+                list(pool.map(partial(_factor_primes, A, p, det), spans))
+        result.extend(int(d) for d in det.tolist())
+    return result
+
+
+def _worker_count(k: int) -> int:
+    """Threads for the factorizations: the usable cores, for matrices large enough."""
+    import os
+
+    if k < 96:
+        return 1
+    try:
+        cores = len(os.sched_getaffinity(0))
+    except AttributeError:  # not on Linux
+        cores = os.cpu_count() or 1
+    return max(1, min(cores, MAX_WORKERS))
+
+
+def _factor_primes(A: Any, p: Any, det: Any, span: tuple[int, int, int]) -> None:
+    """``det[s] <- det(A[s]) mod p[s]`` for ``s`` in ``range(*span)``, BLAS held at one thread
+    for calls from this thread."""
+    import numpy as np
+
+    start, stop, step = span
     setters = _blas_thread_setters()
-    # A prime's products are moderate; BLAS threads would mostly wait on a busy machine.
     previous = [set_threads(1) for set_threads in setters]
     try:
-        for start in range(0, len(moduli), batch):
-            chunk = moduli[start : start + batch]
-            p = np.array(chunk, dtype=np.float64)
-            det = np.empty(len(chunk), dtype=np.float64)
-            kernels.determinants_by_prime(_residues(checked, chunk, k), p, 1.0 / p, det)
-            result.extend(int(d) for d in det.tolist())
+        part = np.empty(len(range(start, stop, step)), dtype=np.float64)
+        _kernels().determinants_by_prime(A, p, 1.0 / p, part, start, stop, step)
+        det[start:stop:step] = part
     finally:
         for set_threads, count in zip(setters, previous, strict=True):
             set_threads(count)
-    return result
 
 
 def _blas_thread_setters() -> list[Any]:
@@ -269,7 +307,7 @@ def _kernels() -> Any:
             SimpleNamespace(
                 combine_words=jit(_combine_words),
                 add_reduce=jit(_add_reduce),
-                determinants_by_prime=jit(_determinants_by_prime),
+                determinants_by_prime=numba.njit(cache=True, nogil=True)(_determinants_by_prime),
             )
         )
     return _KERNELS[0]
@@ -423,20 +461,21 @@ def _update_one(
                 M[r0 + i, c0 + j] = x - pw if x >= pw else x
 
 
-def _determinants_by_prime(A: Any, p: Any, pinv: Any, det: Any) -> None:
-    """``det[w] <- det(A[w]) mod p[w]`` by the recursive LU of the module docstring, one prime
-    after another; ``A`` is overwritten.  The recursion runs on an explicit stack of tasks:
+def _determinants_by_prime(
+    A: Any, p: Any, pinv: Any, det: Any, start: int, stop: int, step: int
+) -> None:
+    """``det[t] <- det(A[w]) mod p[w]`` for the ``t``-th ``w`` in ``range(start, stop, step)``, by
+    the recursive LU of the module docstring, one prime after another; ``A[w]`` is overwritten.  The recursion runs on an explicit stack of tasks:
     ``(0, c0, c1)`` factor the panel ``[c0, c1)``; ``(1, r0, r1, c0, c1)`` triangular solve;
     ``(2, r0, r1, c0, c1, i0, i1)`` Schur complement update."""
     k = A.shape[1]
     P = np.empty((BASE, k), dtype=np.float64)
     stack = np.empty((8 * 64 + 16, 7), dtype=np.int64)
-    for w in range(A.shape[0]):
+    for t, w in enumerate(range(start, stop, step)):
         M = A[w]
         pw = p[w]
         pi = pinv[w]
         d = 1.0
-        top = 0
         stack[0, 0] = 0
         stack[0, 1] = 0
         stack[0, 2] = k
@@ -506,4 +545,4 @@ def _determinants_by_prime(A: Any, p: Any, pinv: Any, det: Any) -> None:
                 _update_one(
                     M, a0, a1, stack[top, 3], stack[top, 4], stack[top, 5], stack[top, 6], pw, pi
                 )
-        det[w] = d
+        det[t] = d

@@ -145,3 +145,13 @@ def test_bad_input() -> None:
     for bad in (4, 1, 1 << 22, 4194303, 5.0, True, -7):
         with pytest.raises(ValueError, match="primes below"):
             dense_determinants([[1]], [bad])  # type: ignore[list-item]
+
+
+def test_primes_shared_among_threads(monkeypatch: pytest.MonkeyPatch) -> None:
+    # Three worker threads over seven primes (uneven shares); python-flint nmod_mat.
+    monkeypatch.setattr(_dense_modular, "_worker_count", lambda k: 3)
+    rnd = random.Random(13)
+    rows = random_rows(rnd, 100, 64)
+    primes = float_primes(7)
+    expected = [int(flint.nmod_mat(rows, q).det()) for q in primes]
+    assert dense_determinants(rows, primes) == expected
