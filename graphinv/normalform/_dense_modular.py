@@ -40,6 +40,8 @@ LU).
 
 from __future__ import annotations
 
+import threading
+from functools import partial
 from typing import Any
 
 from graphinv.normalform._level_determinant import CHUNK, P_MAX
@@ -57,6 +59,7 @@ MAX_WORKERS = 4
 """At most this many threads factor matrices modulo different primes at the same time."""
 
 _KERNELS: list[Any] = []
+_KERNELS_LOCK = threading.Lock()
 _THREAD_SETTERS: list[list[Any]] = []
 np: Any = None  # numpy, bound on first use: the compiled kernels read it as a global
 _CHECKED_PRIMES: set[int] = set()
@@ -119,27 +122,35 @@ def dense_determinants(rows: list[list[int]], primes: list[int]) -> list[int | N
         return []
     if k == 0:
         return [1 % q for q in moduli]
-    # The (W, k, k) residues; a prime's products need only about one more k x k matrix each.
+    _kernels()
     workers = _worker_count(k)
-    batch = max(1, MEMORY_BUDGET // (8 * k * k) - 2 * workers)
+    limbs = _word_limbs(checked, k)
+    if limbs is not None:
+        # Each prime's matrix is formed from the limbs inside the kernel: no (W, k, k) array.
+        batch = len(moduli)
+    else:
+        # The (W, k, k) residues; a prime's products need about one more k x k matrix each.
+        batch = max(1, MEMORY_BUDGET // (8 * k * k) - 2 * workers)
+        limbs = np.empty((3, 0), dtype=np.float64)
     result: list[int | None] = []
     for start in range(0, len(moduli), batch):
         chunk = moduli[start : start + batch]
         p = np.array(chunk, dtype=np.float64)
         det = np.empty(len(chunk), dtype=np.float64)
-        A = _residues(checked, chunk, k)
+        table = _limb_table(chunk, 21, 3)
+        A = np.empty((0, k, k)) if limbs.shape[1] else _residues(checked, chunk, k)
         # The primes are independent: each worker thread takes a share of them (the compiled
         # kernel releases the GIL), with single-threaded BLAS.
         shares = [range(len(chunk))[w :: workers] for w in range(min(workers, len(chunk)))]
         spans = [(share.start, share.start + len(share) * share.step, share.step) for share in shares]
+        work = partial(_factor_primes, k, A, limbs, table, p, det)
         if len(spans) == 1:
-            _factor_primes(A, p, det, spans[0])
+            work(spans[0])
         else:
             from concurrent.futures import ThreadPoolExecutor
-            from functools import partial
 
             with ThreadPoolExecutor(max_workers=len(spans)) as pool:
-                list(pool.map(partial(_factor_primes, A, p, det), spans))
+                list(pool.map(work, spans))
         result.extend(int(d) for d in det.tolist())
     return result
 
@@ -157,9 +168,12 @@ def _worker_count(k: int) -> int:
     return max(1, min(cores, MAX_WORKERS))
 
 
-def _factor_primes(A: Any, p: Any, det: Any, span: tuple[int, int, int]) -> None:
-    """``det[s] <- det(A[s]) mod p[s]`` for ``s`` in ``range(*span)``, BLAS held at one thread
-    for calls from this thread."""
+def _factor_primes(
+    k: int, A: Any, limbs: Any, table: Any, p: Any, det: Any, span: tuple[int, int, int]
+) -> None:
+    """``det[s] <- det mod p[s]`` for ``s`` in ``range(*span)``, of the matrix ``A[s]`` or, when
+    ``limbs`` has columns, of the matrix given by the limbs (see ``_word_limbs``); BLAS held at
+    one thread for calls from this thread."""
     import numpy as np
 
     start, stop, step = span
@@ -167,7 +181,7 @@ def _factor_primes(A: Any, p: Any, det: Any, span: tuple[int, int, int]) -> None
     previous = [set_threads(1) for set_threads in setters]
     try:
         part = np.empty(len(range(start, stop, step)), dtype=np.float64)
-        _kernels().determinants_by_prime(A, p, 1.0 / p, part, start, stop, step)
+        _kernels().determinants_by_prime(k, A, limbs, table, p, 1.0 / p, part, start, stop, step)
         det[start:stop:step] = part
     finally:
         for set_threads, count in zip(setters, previous, strict=True):
@@ -231,32 +245,36 @@ def _square_int_rows(rows: Any) -> list[list[int]]:
     return checked
 
 
+def _word_limbs(rows: list[list[int]], k: int) -> Any:
+    """The entries split into three 21-bit limbs in two's complement (the top one signed),
+    ``entry = limbs[0] + limbs[1] 2^21 + limbs[2] 2^42``, shape ``(3, k * k)`` float64; None
+    if an entry is not below ``2^63`` in absolute value."""
+    import numpy as np
+
+    try:
+        words = np.array(rows, dtype=np.int64).reshape(-1)
+    except OverflowError:
+        return None
+    mask = (1 << 21) - 1
+    limbs = np.empty((3, k * k), dtype=np.float64)
+    limbs[0] = words & mask
+    limbs[1] = (words >> 21) & mask
+    limbs[2] = words >> 42
+    return limbs
+
+
 def _residues(rows: list[list[int]], primes: list[int], k: int) -> Any:
     """``(W, k, k)`` float64 residues of the entries, ``[w]`` modulo ``primes[w]``.
 
-    Each entry is split into limbs in two's complement, ``entry = sum_i limb_i 2^(s i)`` with
-    the top limb signed, and the residues are ``sum_i limb_i (2^(s i) mod p)``, reduced.
-    Entries below ``2^63`` in absolute value are split by NumPy into three 21-bit limbs that a
-    compiled kernel combines; larger ones go through ``int.to_bytes`` into 16-bit limbs, a slice
-    of entries at a time, combined by a float64 matrix product (BLAS)."""
+    Each entry is split by ``int.to_bytes`` into 16-bit limbs in two's complement (the top
+    limb signed), ``entry = sum_i limb_i 2^(16 i)``, a slice of entries at a time, and the
+    residues are ``sum_i limb_i (2^(16 i) mod p)``: a float64 matrix product (BLAS), reduced."""
     import numpy as np
 
     p = np.array(primes, dtype=np.float64)
     pinv = 1.0 / p
     kernels = _kernels()
     A = np.zeros((len(primes), k * k), dtype=np.float64)
-    try:
-        words = np.array(rows, dtype=np.int64).reshape(-1)
-    except OverflowError:
-        words = None
-    if words is not None:
-        mask = (1 << 21) - 1
-        limbs = np.empty((3, k * k), dtype=np.float64)
-        limbs[0] = words & mask
-        limbs[1] = (words >> 21) & mask
-        limbs[2] = words >> 42
-        kernels.combine_words(A, limbs, _limb_table(primes, 21, 3), p, pinv)
-        return A.reshape(len(primes), k, k)
     flat = [v for row in rows for v in row]
     bits = max(max(flat).bit_length(), (-1 - min(flat)).bit_length()) + 1
     count = -(-bits // 16)
@@ -290,47 +308,30 @@ def _limb_table(primes: list[int], bits: int, count: int) -> Any:
 
 def _kernels() -> Any:
     """The compiled kernels (numba, cached on disk after the first compilation)."""
-    global np
-    if not _KERNELS:
-        from types import SimpleNamespace
+    global np, _panel_one, _solve_one, _update_one
+    with _KERNELS_LOCK:
+        if not _KERNELS:
+            from types import SimpleNamespace
 
-        import numba
-        import numpy as np
+            import numba
+            import numpy as np
 
-        jit = numba.njit(cache=True)
-        # The single-prime kernels call each other: each is bound, compiled, under its name.
-        global _panel_one, _solve_one, _update_one
-        _panel_one = jit(_panel_one)
-        _solve_one = jit(_solve_one)
-        _update_one = jit(_update_one)
-        _KERNELS.append(
-            SimpleNamespace(
-                combine_words=jit(_combine_words),
-                add_reduce=jit(_add_reduce),
-                determinants_by_prime=numba.njit(cache=True, nogil=True)(_determinants_by_prime),
+            jit = numba.njit(cache=True, nogil=True)
+            # The single-prime kernels call each other: each is bound, compiled, to its name.
+            _panel_one = jit(_panel_one)
+            _solve_one = jit(_solve_one)
+            _update_one = jit(_update_one)
+            _KERNELS.append(
+                SimpleNamespace(
+                    add_reduce=jit(_add_reduce),
+                    determinants_by_prime=jit(_determinants_by_prime),
+                )
             )
-        )
     return _KERNELS[0]
 
 
 # The kernels below are compiled by numba (see _kernels).  Residues are float64 integers in
 # [0, p); ``x - p * floor(x / p)`` (with one correction either way) reduces any |x| < 2^53.
-
-
-def _combine_words(A: Any, limbs: Any, table: Any, p: Any, pinv: Any) -> None:
-    """``A[w, j] <- sum_i limbs[i, j] table[w, i] mod p[w]`` for three limbs below ``2^21`` in
-    absolute value (the sum is below ``2^46``)."""
-    for w in range(A.shape[0]):
-        pw = p[w]
-        pi = pinv[w]
-        t0 = table[w, 0]
-        t1 = table[w, 1]
-        t2 = table[w, 2]
-        for j in range(A.shape[1]):
-            x = limbs[0, j] * t0 + limbs[1, j] * t1 + limbs[2, j] * t2
-            x -= pw * np.floor(x * pi)
-            x = x + pw if x < 0.0 else x
-            A[w, j] = x - pw if x >= pw else x
 
 
 def _add_reduce(A: Any, start: int, part: Any, p: Any, pinv: Any) -> None:
@@ -462,19 +463,37 @@ def _update_one(
 
 
 def _determinants_by_prime(
-    A: Any, p: Any, pinv: Any, det: Any, start: int, stop: int, step: int
+    k: int, A: Any, limbs: Any, table: Any, p: Any, pinv: Any, det: Any,
+    start: int, stop: int, step: int,
 ) -> None:
-    """``det[t] <- det(A[w]) mod p[w]`` for the ``t``-th ``w`` in ``range(start, stop, step)``, by
-    the recursive LU of the module docstring, one prime after another; ``A[w]`` is overwritten.  The recursion runs on an explicit stack of tasks:
-    ``(0, c0, c1)`` factor the panel ``[c0, c1)``; ``(1, r0, r1, c0, c1)`` triangular solve;
-    ``(2, r0, r1, c0, c1, i0, i1)`` Schur complement update."""
-    k = A.shape[1]
+    """``det[t] <- det mod p[w]`` for the ``t``-th ``w`` in ``range(start, stop, step)``, by the
+    recursive LU of the module docstring, one prime after another.  The matrix is ``A[w]``
+    (overwritten) or, when ``limbs`` has columns, ``sum_i limbs[i] table[w, i]`` reduced, formed
+    in a work matrix (three limbs below ``2^21``: the sum is below ``2^46``).  The recursion
+    runs on an explicit stack of tasks: ``(0, c0, c1)`` factor the panel ``[c0, c1)``;
+    ``(1, r0, r1, c0, c1)`` triangular solve; ``(2, r0, r1, c0, c1, i0, i1)`` Schur complement
+    update."""
+    formed = limbs.shape[1] > 0
+    work = np.empty((k, k) if formed else (0, 0), dtype=np.float64)
     P = np.empty((BASE, k), dtype=np.float64)
     stack = np.empty((8 * 64 + 16, 7), dtype=np.int64)
     for t, w in enumerate(range(start, stop, step)):
-        M = A[w]
         pw = p[w]
         pi = pinv[w]
+        if formed:
+            t0 = table[w, 0]
+            t1 = table[w, 1]
+            t2 = table[w, 2]
+            for i in range(k):
+                for j in range(k):
+                    e = i * k + j
+                    x = limbs[0, e] * t0 + limbs[1, e] * t1 + limbs[2, e] * t2
+                    x -= pw * np.floor(x * pi)
+                    x = x + pw if x < 0.0 else x
+                    work[i, j] = x - pw if x >= pw else x
+            M = work
+        else:
+            M = A[w]
         d = 1.0
         stack[0, 0] = 0
         stack[0, 1] = 0
