@@ -1,9 +1,8 @@
 """Determinants of dense integer matrices modulo many word-size primes at once.
 
-The matrix is reduced modulo every prime into one array of shape ``(W, k, k)`` of float64
-residues (one ``k x k`` matrix per prime).  Each matrix is then factored by a recursive LU
-decomposition with row pivoting (Toledo's recursive formulation of the blocked right-looking
-LU): the column range ``[c0, c1)`` of the active rows is split in two halves; the left half is
+For each prime the matrix is reduced to a ``k x k`` matrix of float64 residues, which is
+factored by a recursive LU decomposition with row pivoting (Toledo's recursive formulation of
+the blocked right-looking LU): the column range ``[c0, c1)`` of the active rows is split in two halves; the left half is
 factored recursively, the top block of the right half is solved against the unit lower triangle
 (``U12 = L11^{-1} A12``, itself recursive), the rest of the right half receives the Schur
 complement update ``A22 <- A22 - L21 U12`` and is factored recursively.  Almost all the work is
@@ -23,10 +22,18 @@ that prime stops.  Inside a panel the rank-one updates are not reduced (at most 
 them, each below ``2^44``, stay below ``2^53``); an entry is reduced when its column becomes the
 pivot column or its row the pivot row.
 
-Entries are reduced modulo the primes without a Python operation per entry and prime: each
-integer is split into 16-bit limbs (two's complement, the top limb signed), and the residues are
-the product of the limb matrix with the table ``2^(16 i) mod p`` (a float64 matrix product,
-exact for up to ``2^15`` limbs), reduced once.
+Entries are reduced modulo the primes without a Python operation per entry and prime.  Entries
+below ``2^63`` in absolute value are split by NumPy into three 21-bit limbs (two's complement,
+the top limb signed), and the kernel forms each prime's matrix from them,
+``sum_i limb_i (2^(21 i) mod p)``, just before factoring it, so no ``(W, k, k)`` array exists.
+Larger entries are split by ``int.to_bytes`` into 16-bit limbs and all residues are formed at
+once by a float64 matrix product of the limbs with the table ``2^(16 i) mod p`` (BLAS; exact for
+up to ``2^14`` limbs at a time), primes taken in batches that fit ``MEMORY_BUDGET``.
+
+The primes are independent: they are shared among worker threads (one per usable core, at most
+``MAX_WORKERS``; the compiled kernel releases the GIL), and each thread keeps BLAS to a single
+thread for its own calls (``openblas_set_num_threads_local``), because threaded BLAS on products
+of this size mostly waits when the machine is shared.
 
 References
 ----------
@@ -47,7 +54,7 @@ from typing import Any
 from graphinv.normalform._level_determinant import CHUNK, P_MAX
 from graphinv.normalform._matrix import InvalidMatrixError, as_int_rows
 
-__all__ = ["BASE", "MEMORY_BUDGET", "dense_determinants"]
+__all__ = ["BASE", "MAX_WORKERS", "MEMORY_BUDGET", "dense_determinants"]
 
 BASE = 8
 """Panels of at most this many columns are factored by the compiled kernel."""
@@ -93,9 +100,11 @@ def dense_determinants(rows: list[list[int]], primes: list[int]) -> list[int | N
 
     Notes
     -----
-    Work is ``(2/3) k^3`` floating-point multiply-adds per prime, nearly all of it in batched
-    BLAS products; memory is ``8 W k^2`` bytes for ``W`` primes, taken in batches of primes
-    when that exceeds ``MEMORY_BUDGET``.  See the module docstring for the method.
+    Work is about ``(2/3) k^3`` floating-point multiply-adds per prime, nearly all of it in
+    BLAS products, the primes shared among worker threads.  Memory is a few ``k x k`` float64
+    matrices per thread when every entry is below ``2^63`` in absolute value, otherwise
+    ``8 W k^2`` bytes for ``W`` primes, taken in batches of primes that fit ``MEMORY_BUDGET``.
+    See the module docstring for the method.
 
     Examples
     --------

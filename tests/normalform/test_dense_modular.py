@@ -49,11 +49,13 @@ def test_large_blocked_path_matches_flint_nmod_mat() -> None:
     assert dense_determinants(rows, primes) == expected
 
 
-def test_batches_of_primes(monkeypatch: pytest.MonkeyPatch) -> None:
-    # A tiny memory budget forces one prime per batch; python-flint fmpz_mat.det as reference.
+@pytest.mark.parametrize("k", [50, 110])
+def test_batches_of_primes(monkeypatch: pytest.MonkeyPatch, k: int) -> None:
+    # Entries beyond 2^63 are reduced into a (W, k, k) array; a tiny memory budget forces one
+    # prime per batch (k = 110 also uses worker threads); python-flint fmpz_mat.det.
     monkeypatch.setattr(_dense_modular, "MEMORY_BUDGET", 1)
     rnd = random.Random(8)
-    rows = random_rows(rnd, 50, 30)
+    rows = random_rows(rnd, k, 70)
     assert dense_determinants(rows, PRIMES) == flint_residues(rows, PRIMES)
 
 
