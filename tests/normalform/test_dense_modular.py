@@ -157,3 +157,14 @@ def test_primes_shared_among_threads(monkeypatch: pytest.MonkeyPatch) -> None:
     primes = float_primes(7)
     expected = [int(flint.nmod_mat(rows, q).det()) for q in primes]
     assert dense_determinants(rows, primes) == expected
+
+
+@pytest.mark.slow
+def test_inner_dimension_beyond_chunk() -> None:
+    # k = 1100: the top-level products have inner dimension 550 > CHUNK = 512 and are split;
+    # python-flint nmod_mat as reference.
+    rnd = random.Random(14)
+    rows = random_rows(rnd, 1100, 40)
+    primes = float_primes(2)
+    expected = [int(flint.nmod_mat(rows, q).det()) for q in primes]
+    assert dense_determinants(rows, primes) == expected
