@@ -149,3 +149,29 @@ def test_early_dense_stop_agrees_with_flint():
     S = flint.fmpz_mat(L).snf()
     expected = tuple(int(S[i, i]) for i in range(300) if int(S[i, i]) > 1)
     assert critical_group(G).invariant_factors == expected
+
+
+@pytest.mark.parametrize(
+    "G",
+    [nx.circular_ladder_graph(60), nx.circular_ladder_graph(91), nx.hypercube_graph(7),
+     nx.grid_2d_graph(12, 12)],
+    ids=["prism60", "prism91", "Q7", "grid12"],
+)
+def test_groups_with_two_large_factors_agree_with_flint(G, monkeypatch):
+    # The second invariant factor of the subgroup spanned by two solutions settles the primes
+    # it shares only with d_{k-1}; reference: python-flint fmpz_mat.snf of the Laplacian.
+    import graphinv.normalform._modular as modular
+
+    seen: list[int] = []
+    original = modular._second_invariant
+
+    def spy(*args):
+        seen.append(original(*args))
+        return seen[-1]
+
+    monkeypatch.setattr(modular, "_second_invariant", spy)
+    L = nx.laplacian_matrix(G, nodelist=list(G)).toarray().tolist()
+    S = flint.fmpz_mat(L).snf()
+    expected = tuple(int(S[i, i]) for i in range(len(L)) if int(S[i, i]) > 1)
+    assert critical_group(G).invariant_factors == expected
+    assert seen and max(seen) > 1
