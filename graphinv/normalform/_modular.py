@@ -95,8 +95,18 @@ def hadamard_bound(rows: list[dict[int, int]] | list[list[int]]) -> int:
     return isqrt(product - 1) + 1 if product else 0
 
 
-def crt_determinant(C: Any, bound: int, divisor: int = 1) -> int:
+# Dense cores from this size on get their residues from the batched float-BLAS elimination.
+DENSE_BATCH = 96
+
+
+def crt_determinant(
+    C: Any, bound: int, divisor: int = 1, rows: list[list[int]] | None = None
+) -> int:
     """``det C`` for an ``fmpz_mat`` with ``|det C| <= bound`` and ``divisor | det C``.
+
+    From ``DENSE_BATCH`` rows on, when the rows are given as Python ints, all the residues come
+    from one batched elimination modulo primes below ``2^22``
+    (:mod:`graphinv.normalform._dense_modular`); otherwise python-flint works prime by prime.
 
     Examples
     --------
@@ -107,6 +117,22 @@ def crt_determinant(C: Any, bound: int, divisor: int = 1) -> int:
     import flint
 
     limit = 2 * (bound // divisor) + 1
+    if rows is not None and len(rows) >= DENSE_BATCH:
+        from graphinv.normalform._dense_modular import dense_determinants
+        from graphinv.normalform._level_determinant import float_primes
+        from graphinv.normalform._modular_elimination import crt_signed
+
+        residues: dict[int, int] = {}
+        product, offset = 1, 0
+        while product <= limit:
+            count = (limit // product).bit_length() // 21 + 2
+            batch = [q for q in float_primes(offset + count)[offset:] if divisor % q]
+            offset += count
+            for q, r in zip(batch, dense_determinants(rows, batch), strict=True):
+                if r is not None:
+                    residues[q] = r * pow(divisor % q, -1, q) % q
+                    product *= q
+        return crt_signed(residues) * divisor
     modulus = 1
     value = 0
     used = 0
@@ -428,7 +454,7 @@ def modular_core(
             break
     # A bound inherited from the matrix before elimination is far tighter than the core's own
     # Hadamard bound (which costs a pass over k^2 big entries), so the latter is only a default.
-    D = abs(crt_determinant(C, bound if bound is not None else hadamard_bound(rows), s))
+    D = abs(crt_determinant(C, bound if bound is not None else hadamard_bound(rows), s, rows))
     if D == 0 or D % s:
         raise _InternalCheckError("the determinant is not a multiple of an element order")
     N = D // s
