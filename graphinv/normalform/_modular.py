@@ -96,7 +96,7 @@ def hadamard_bound(rows: list[dict[int, int]] | list[list[int]]) -> int:
 
 
 # Dense cores from this size on get their residues from the batched float-BLAS elimination.
-DENSE_BATCH = 96
+DENSE_BATCH = 200
 
 
 def crt_determinant(
@@ -255,29 +255,35 @@ def _complement_of_independent(M: Any, t: int, p: int) -> list[int]:
     raise _InternalCheckError("a nullspace basis of full rank was expected")
 
 
-def _local_schur_word(rows: list[list[int]], C: Any, p: int, t: int, precision: int) -> list[list[int]]:
-    """The ``t`` by ``t`` Schur complement ``S = C22 - C21 C11^{-1} C12`` modulo ``p^precision``,
-    where ``C11 = C[R, K]`` is nonsingular modulo ``p`` (``t`` = corank of ``C`` modulo ``p``).
+def _local_schur_word(
+    rows: list[list[int]], C: Any, p: int, t: int, precision: int
+) -> list[list[int]]:
+    """The ``t`` by ``t`` Schur complement ``S = C22 - C21 C11^{-1} C12`` modulo ``q = p^precision``
+    (``q < 2^62``), where ``C11 = C[R, K]`` is nonsingular modulo ``p`` (``t`` = corank of ``C``
+    modulo ``p``).
 
     Over the ``p``-adic integers ``C`` is equivalent to ``diag(C11, S)`` with ``C11``
     invertible, so ``S`` carries the whole local Smith form.  ``X = C11^{-1} C12`` is lifted
-    ``p``-adically (Dixon 1982): one inverse modulo ``p``, then one exact product per digit.
+    ``p``-adically (Dixon 1982): one inverse modulo ``p``, then one product per digit, all in
+    word-size arithmetic modulo ``q`` (the entries are reduced first, however big they were).
     """
     import flint
 
     k = len(rows)
+    q = p**precision
     K_rest = _complement_of_independent(_mod_matrix(C, p), t, p)
     R_rest = _complement_of_independent(_mod_matrix(C.transpose(), p), t, p)
     dropped_columns, dropped_rows = set(K_rest), set(R_rest)
     K = [j for j in range(k) if j not in dropped_columns]
     R = [i for i in range(k) if i not in dropped_rows]
+    reduced = [[x % q for x in line] for line in rows]
 
-    def block(row_index: list[int], columns: list[int]) -> Any:
-        return flint.fmpz_mat([[rows[i][j] for j in columns] for i in row_index])
+    def block(row_index: list[int], columns: list[int]) -> list[list[int]]:
+        return [[reduced[i][j] for j in columns] for i in row_index]
 
-    C11 = block(R, K)
-    inverse = flint.nmod_mat(C11, p).inv()
-    residual = [[rows[i][j] for j in K_rest] for i in R]
+    C11 = flint.nmod_mat(block(R, K), q)
+    inverse = flint.nmod_mat(block(R, K), p).inv()
+    residual = block(R, K_rest)
     X = [[0] * t for _ in R]
     power = 1
     for _ in range(precision):
@@ -288,14 +294,15 @@ def _local_schur_word(rows: list[list[int]], C: Any, p: int, t: int, precision: 
         for line, add in zip(X, digit, strict=True):
             for j in range(t):
                 line[j] += power * add[j]
-        product = (C11 * flint.fmpz_mat(digit)).tolist()
-        residual = [
-            [(a - int(b)) // p for a, b in zip(line, other, strict=True)]
-            for line, other in zip(residual, product, strict=True)
-        ]
+        # residual - C11 digit is divisible by p; it is known modulo q / power, enough for
+        # the digits still to come.
+        difference = (flint.nmod_mat(residual, q) - C11 * flint.nmod_mat(digit, q)).tolist()
+        residual = [[int(x) // p for x in line] for line in difference]
         power *= p
-    S = block(R_rest, K_rest) - block(R_rest, K) * flint.fmpz_mat(X)
-    return [[int(x) % power for x in line] for line in S.tolist()]
+    S = flint.nmod_mat(block(R_rest, K_rest), q) - flint.nmod_mat(
+        block(R_rest, K), q
+    ) * flint.nmod_mat([[x % q for x in line] for line in X], q)
+    return [[int(x) for x in line] for line in S.tolist()]
 
 
 def _local_valuations_word(rows: list[list[int]], p: int, precision: int) -> list[int]:
@@ -486,14 +493,23 @@ def modular_core(
     hard.sort(reverse=True)
     for item in list(hard):
         t, p, e = item
-        precision = min(e + 1, int(math.log(2**31 - 1, p)))
-        while precision > 0 and p**precision >= 2**31:  # guard against rounding in log
-            precision -= 1
-        if precision < 2:
+        cap = min(e + 1, int(math.log(2**31 - 1, p)))
+        while cap > 0 and p**cap >= 2**31:  # guard against rounding in log
+            cap -= 1
+        if cap < 2:
             continue
-        reduced = _local_schur_word(rows, C, p, t, precision) if t < k // 4 else rows
-        local = sorted((v for v in _local_valuations_word(reduced, p, precision) if v), reverse=True)
-        saturated = sum(1 for v in local if v >= precision)
+        # Only the second largest valuation must stay below the precision (the total fixes the
+        # largest), and it is usually small: start low and raise the precision when needed.
+        precision = min(cap, max(2, int(8 / math.log2(p)) + 1))
+        while True:
+            reduced = _local_schur_word(rows, C, p, t, precision) if t < k // 4 else rows
+            local = sorted(
+                (v for v in _local_valuations_word(reduced, p, precision) if v), reverse=True
+            )
+            saturated = sum(1 for v in local if v >= precision)
+            if (len(local) == t and saturated <= 1) or precision >= cap:
+                break
+            precision = min(cap, 2 * precision)
         if len(local) == t and saturated <= 1:
             # Only the largest can be cut off by the precision; the total fixes it.
             local[0] = e - sum(local[1:])
