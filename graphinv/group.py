@@ -55,7 +55,7 @@ from graphinv.errors import GraphInvError, InvalidGraphError
 from graphinv.normalform import Cokernel, sparse_cokernel, sparse_determinant
 from graphinv.normalform._matrix import chain_normalize
 from graphinv.normalform.cokernel import sparse_cokernel_witness
-from graphinv.normalform.determinant import confirm_determinant, determinant_divisor
+from graphinv.normalform.determinant import confirm_determinant, subgroup_order
 
 __all__ = [
     "CertificationError",
@@ -523,11 +523,12 @@ def _block_group(
         raise CertificationError("a block's reduced Laplacian came out singular")
     factors = list(group.invariant_factors)
     if witness is not None:
-        # The short route: a proven divisor s of det L (an exact rational solution), then
-        # det L = order modulo primes whose product exceeds (bound + order) / s.
+        # The short route: a proven divisor s of det L (the order of the subgroup spanned by
+        # two exact rational solutions), then det L = order modulo primes whose product
+        # exceeds (bound + order) / s.
         order = reduce(mul, factors, 1)
         try:
-            divisor = determinant_divisor(rows, *witness)
+            divisor = subgroup_order(rows, *witness)
         except ArithmeticError as error:
             raise CertificationError(
                 f"block: the solution behind the certificate fails: {error}"

@@ -158,13 +158,13 @@ def diagonal_of_rows(rows: list[list[int]], m: int, n: int) -> tuple[int, ...]:
 
 def sparse_cokernel_witness(
     rows: Sequence[Mapping[int, int]], *, n_columns: int
-) -> tuple[Cokernel, tuple[int, list[int]] | None]:
-    """:func:`sparse_cokernel`, with a solution that proves a divisor of the determinant.
+) -> tuple[Cokernel, tuple[list[int], list[list[int]]] | None]:
+    """:func:`sparse_cokernel`, with solutions that prove a divisor of the determinant.
 
-    For a square nonsingular matrix whose core took the modular route, also ``(s, w)`` with
-    ``A w = 0 (mod s)`` and ``s`` the (typically largest) order of an element: the core's
-    rational solution, extended through the unit pivots by back-substitution.  Check it with
-    :func:`graphinv.normalform.determinant.determinant_divisor`.  ``None`` otherwise.
+    For a square nonsingular matrix whose core took the modular route, also
+    ``(orders, vectors)`` with ``A w_j = 0 (mod o_j)``: the core's two rational solutions,
+    extended through the unit pivots by back-substitution.  Check them with
+    :func:`graphinv.normalform.determinant.subgroup_order`.  ``None`` otherwise.
 
     Examples
     --------
@@ -194,8 +194,8 @@ def sparse_cokernel_witness(
     else:
         core, solution = modular_core(dense_rows(reduction.rows, reduction.n_columns), bound=bound)
         if solution is not None and len(reduction.rows) == reduction.n_columns == k:
-            s, w = solution
-            witness = (s, extend_solution(reduction, w, n_columns))
+            orders, numerators = solution
+            witness = (orders, [extend_solution(reduction, w, n_columns) for w in numerators])
     rank = reduction.pivots + len(core)
     return Cokernel(tuple(d for d in core if d > 1), n_columns - rank), witness
 

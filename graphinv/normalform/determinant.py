@@ -20,7 +20,13 @@ from typing import Any
 
 from graphinv.normalform._matrix import InvalidMatrixError, as_int_rows, as_sparse_int_rows
 
-__all__ = ["confirm_determinant", "determinant", "determinant_divisor", "sparse_determinant"]
+__all__ = [
+    "confirm_determinant",
+    "determinant",
+    "determinant_divisor",
+    "sparse_determinant",
+    "subgroup_order",
+]
 
 
 def determinant(matrix: Sequence[Sequence[int]] | Any) -> int:
@@ -148,6 +154,53 @@ def determinant_divisor(rows: Sequence[Mapping[int, int]], modulus: int, vector:
         if common == 1:
             break
     return modulus // common
+
+
+def subgroup_order(
+    rows: Sequence[Mapping[int, int]], orders: Sequence[int], vectors: Sequence[Sequence[int]]
+) -> int:
+    """A proven divisor of ``det A`` from integer vectors ``w_j`` with ``A w_j = 0 (mod o_j)``.
+
+    Each ``x_j = w_j / o_j`` solves ``A x = b_j`` with ``b_j`` integral, so the ``x_j`` lie in
+    ``A^{-1} Z^n / Z^n``, a group of order ``|det A|``; the order of the subgroup they generate
+    divides it (Lagrange).  One vector: its exact denominator
+    (:func:`determinant_divisor`); two: the index of their relation lattice.
+
+    Parameters
+    ----------
+    rows : sequence of mappings
+        The square matrix ``A`` as rows ``{column: value}``.
+    orders : sequence of int
+    vectors : sequence of sequences of int
+        One or two vectors.
+
+    Returns
+    -------
+    int
+
+    Raises
+    ------
+    ArithmeticError
+        If some ``A w_j`` is not divisible by ``o_j``.
+
+    Examples
+    --------
+    >>> A = [{0: 2, 1: 0}, {0: 0, 1: 2}]  # Z/2 + Z/2
+    >>> subgroup_order(A, [2, 2], [[1, 0], [0, 1]])
+    4
+
+    References
+    ----------
+    Abbott, Bronstein, Mulders, ISSAC 1999; Eberly, Giesbrecht, Villard, FOCS 2000.
+    """
+    from graphinv.normalform._modular import pair_subgroup_order
+
+    checked = [determinant_divisor(rows, o, w) for o, w in zip(orders, vectors, strict=True)]
+    if len(checked) == 1:
+        return checked[0]
+    if len(checked) != 2:
+        raise ValueError("subgroup_order takes one or two vectors")
+    return pair_subgroup_order([list(w) for w in vectors], list(orders))
 
 
 def confirm_determinant(

@@ -17,7 +17,11 @@ import pytest
 from graphinv import critical_group
 from graphinv.normalform._sparse import eliminate_unit_pivots, extend_solution
 from graphinv.normalform.cokernel import sparse_cokernel_witness
-from graphinv.normalform.determinant import confirm_determinant, determinant_divisor
+from graphinv.normalform.determinant import (
+    confirm_determinant,
+    determinant_divisor,
+    subgroup_order,
+)
 
 
 def reduced_laplacian(G: nx.Graph) -> list[dict[int, int]]:
@@ -86,11 +90,15 @@ def test_witness_divides_the_determinant(seed):
     rows = reduced_laplacian(G)
     group, witness = sparse_cokernel_witness([dict(r) for r in rows], n_columns=len(rows))
     assert witness is not None
-    s = determinant_divisor(rows, *witness)
+    orders, vectors = witness
+    s = subgroup_order(rows, orders, vectors)
+    assert s % determinant_divisor(rows, orders[0], vectors[0]) == 0
     det = flint_det(rows)
     assert det % s == 0
-    assert group.invariant_factors[-1] % s == 0  # an element order divides the exponent
-    assert group.invariant_factors[-1] // s < 100  # two random solutions: nearly the exponent
+    factors = group.invariant_factors
+    top = factors[-1] * (factors[-2] if len(factors) > 1 else 1)
+    assert top % s == 0  # a subgroup with two generators: its factors divide d_{k-1}, d_k
+    assert top // s < 100  # two random solutions: nearly all of it
     assert group.torsion_order == det  # Kirchhoff: det of the reduced Laplacian
 
 
@@ -99,7 +107,7 @@ def test_a_tampered_solution_is_refused():
     rows = reduced_laplacian(G)
     _, witness = sparse_cokernel_witness([dict(r) for r in rows], n_columns=len(rows))
     assert witness is not None
-    s, w = witness
+    s, w = witness[0][0], witness[1][0]
     bad = list(w)
     bad[3] += 1
     with pytest.raises(ArithmeticError, match="not divisible"):
@@ -175,3 +183,18 @@ def test_groups_with_two_large_factors_agree_with_flint(G, monkeypatch):
     expected = tuple(int(S[i, i]) for i in range(len(L)) if int(S[i, i]) > 1)
     assert critical_group(G).invariant_factors == expected
     assert seen and max(seen) > 1
+
+
+def test_subgroup_order_of_two_solutions_against_flint():
+    # Lagrange: the subgroup spanned by two solutions has an order dividing det A; for the
+    # 20 x 20 grid (two large invariant factors) it is d_{k-1} d_k.  Reference: python-flint.
+    G = nx.grid_2d_graph(20, 20)
+    rows = reduced_laplacian(G)
+    group, witness = sparse_cokernel_witness([dict(r) for r in rows], n_columns=len(rows))
+    assert witness is not None
+    order = subgroup_order(rows, *witness)
+    assert flint_det(rows) % order == 0
+    top = group.invariant_factors[-1] * group.invariant_factors[-2]
+    assert top % order == 0 and top // order < 100
+    with pytest.raises(ValueError, match="one or two"):
+        subgroup_order(rows, [1, 1, 1], [[0] * len(rows)] * 3)
