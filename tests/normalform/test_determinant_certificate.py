@@ -198,3 +198,27 @@ def test_subgroup_order_of_two_solutions_against_flint():
     assert top % order == 0 and top // order < 100
     with pytest.raises(ValueError, match="one or two"):
         subgroup_order(rows, [1, 1, 1], [[0] * len(rows)] * 3)
+
+
+def test_pair_subgroup_order_counts_the_subgroup():
+    # Direct count (common fact: |<x, y>| is the number of distinct a x + b y in (Q/Z)^n) on
+    # 1500 seeded small cases, with common denominators that need not be exact.
+    from fractions import Fraction
+
+    from graphinv.normalform._modular import pair_subgroup_order
+
+    rng = random.Random(5)
+    for _ in range(1500):
+        n = rng.randrange(1, 4)
+        orders = [rng.randrange(1, 13), rng.randrange(1, 13)]
+        vectors = [[rng.randrange(-20, 20) for _ in range(n)] for _ in range(2)]
+        elements = {
+            tuple(
+                (Fraction(a * vectors[0][i], orders[0]) + Fraction(b * vectors[1][i], orders[1]))
+                % 1
+                for i in range(n)
+            )
+            for a in range(orders[0])
+            for b in range(orders[1])
+        }
+        assert pair_subgroup_order(vectors, orders) == len(elements)
