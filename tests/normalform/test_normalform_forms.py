@@ -34,6 +34,22 @@ def random_matrix(rng: random.Random, m: int, n: int, spread: int = 6) -> list[l
     return [[rng.choice(entries) for _ in range(n)] for _ in range(m)]
 
 
+def mixed_diagonal(rng: random.Random, diagonal: list[int], rounds: int) -> list[list[int]]:
+    """``diag(diagonal)`` mixed by ``rounds`` random unimodular row or column operations (the
+    Smith form is unchanged: common fact)."""
+    k = len(diagonal)
+    A = [[diagonal[i] if i == j else 0 for j in range(k)] for i in range(k)]
+    for _ in range(rounds):
+        i, j = rng.sample(range(k), 2)
+        c = rng.randrange(-2, 3)
+        if rng.random() < 0.5:
+            A[i] = [x + c * y for x, y in zip(A[i], A[j], strict=True)]
+        else:
+            for row in A:
+                row[i] += c * row[j]
+    return A
+
+
 def flint_diagonal(A: list[list[int]]) -> tuple[int, ...]:
     m, n = len(A), len(A[0]) if A else 0
     S = flint.fmpz_mat(A).snf()
@@ -151,15 +167,7 @@ def test_modular_finish_agrees_with_flint(seed):
     rng = random.Random(60_000 + seed)
     k = rng.randrange(25, 45)
     diagonal = [rng.choice([1, 1, 2, 3, 4, 6, 12, 5, 10]) for _ in range(k)]
-    A = [[diagonal[i] if i == j else 0 for j in range(k)] for i in range(k)]
-    for _ in range(4 * k):
-        i, j = rng.sample(range(k), 2)
-        c = rng.randrange(-2, 3)
-        if rng.random() < 0.5:
-            A[i] = [x + c * y for x, y in zip(A[i], A[j], strict=True)]
-        else:
-            for row in A:
-                row[i] += c * row[j]
+    A = mixed_diagonal(rng, diagonal, 4 * k)
     expected = [d for d in flint_diagonal(A) if d]
     assert modular_core_diagonal([row[:] for row in A]) == expected
     assert list(smith_diagonal(A)) == expected
@@ -232,14 +240,6 @@ def test_modular_finish_few_hard_primes_agrees_with_flint(seed):
     k = rng.randrange(60, 90)
     tail = rng.sample([2, 4, 8, 3, 9, 6, 12, 24, 5, 25, 7, 49, 36, 60], 6)
     diagonal = [1] * (k - len(tail)) + tail
-    A = [[diagonal[i] if i == j else 0 for j in range(k)] for i in range(k)]
-    for _ in range(6 * k):
-        i, j = rng.sample(range(k), 2)
-        c = rng.randrange(-2, 3)
-        if rng.random() < 0.5:
-            A[i] = [x + c * y for x, y in zip(A[i], A[j], strict=True)]
-        else:
-            for row in A:
-                row[i] += c * row[j]
+    A = mixed_diagonal(rng, diagonal, 6 * k)
     expected = [d for d in flint_diagonal(A) if d]
     assert modular_core_diagonal([row[:] for row in A]) == expected
