@@ -8,7 +8,7 @@ call is timed (the Laplacian is built before the clock starts); graphinv's time 
 compiled kernels are loaded before the clock starts: one warm-up call on a small graph (the
 numba kernels load from the on-disk cache, about a second once per process; the first run after
 installation compiles them).  That one-time cost is printed in its own column ("load s").
-Every tool whose first run takes under 5 s is run three times and its best time kept.
+Every tool whose first run takes under 5 s is run five times and its best time kept.
 
 Usage::
 
@@ -76,7 +76,7 @@ def _peak_megabytes() -> float:
 REPEAT_BELOW = 5.0
 """A tool whose first timed run takes less than this many seconds is run up to ``REPEATS``
 times and the best time is kept (the same rule for every tool, as ``timeit`` does)."""
-REPEATS = 3
+REPEATS = 5
 
 
 def _best_of(call: Callable[[], object]) -> tuple[float, object]:

@@ -407,14 +407,15 @@ def modular_core_diagonal(
 
 
 def modular_core(
-    rows: list[list[int]], *, bound: int | None = None, seed: int = 0
+    rows: list[list[int]], *, bound: int | None = None, seed: int = 0, matrix: Any = None
 ) -> tuple[list[int], tuple[list[int], list[list[int]]] | None]:
     """:func:`modular_core_diagonal` and two rational solutions of ``C y = c``, ``c`` integral.
 
     The solutions are returned as ``(orders, numerators)`` with ``y_j = numerators[j] /
     orders[j]``; ``None`` when the core is singular or not square.  The subgroup they generate
     in ``C^{-1} Z^k / Z^k`` has an order dividing ``det C`` (Lagrange), which is what the
-    determinant certificate of :mod:`graphinv.group` builds on.
+    determinant certificate of :mod:`graphinv.group` builds on.  ``matrix`` may pass the same
+    rows already converted to a python-flint ``fmpz_mat``.
 
     Examples
     --------
@@ -424,7 +425,7 @@ def modular_core(
     import flint
 
     k = len(rows)
-    C = flint.fmpz_mat(rows)
+    C = matrix if matrix is not None else flint.fmpz_mat(rows)  # the same rows, converted
     if k == 0 or C.ncols() != k:
         return _flint_fallback(C), None
     rng = random.Random(seed * 1_000_003 + k)

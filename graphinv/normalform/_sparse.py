@@ -19,6 +19,7 @@ from __future__ import annotations
 
 import heapq
 from dataclasses import dataclass, field
+from typing import Any
 
 __all__ = [
     "UnitReduction",
@@ -51,6 +52,10 @@ class UnitReduction:
         the whole matrix.
     kept_columns : list of int
         With ``keep_pivots=True``: the original number of each remaining column.
+    dense, matrix : list of lists of int, python-flint ``fmpz_mat``, or None
+        After an early stop at a dense remainder: the remaining rows in dense form, both as
+        Python ints and as an ``fmpz_mat`` (the probe built them; the modular finish reuses
+        them).
     """
 
     pivots: int
@@ -59,6 +64,8 @@ class UnitReduction:
     n_rows: int
     pivot_rows: list[tuple[int, dict[int, int]]] = field(default_factory=list)
     kept_columns: list[int] = field(default_factory=list)
+    dense: list[list[int]] | None = None
+    matrix: Any = None
 
 
 def sparse_rows(rows: list[list[int]]) -> list[dict[int, int]]:
@@ -130,6 +137,7 @@ def eliminate_unit_pivots(
     pivots = 0
     kept: list[tuple[int, dict[int, int]]] = []
     probe = dense_stop
+    cyclic, dense, matrix = False, None, None
     while heap:
         length, i = heapq.heappop(heap)
         row = rows[i]
@@ -138,7 +146,10 @@ def eliminate_unit_pivots(
         if probe and length >= DENSE_ROW and length >= DENSE_SHARE * (n_columns - pivots):
             probe = False
             live = [rows[r] for r in range(n_rows) if not dead_row[r] and rows[r]]
-            if _nearly_cyclic(live, [j for j in range(n_columns) if not dead_column[j]]):
+            cyclic, dense, matrix = _nearly_cyclic(
+                live, [j for j in range(n_columns) if not dead_column[j]]
+            )
+            if cyclic:
                 break
         best_column = -1
         best_count = n_rows + 1
@@ -188,8 +199,16 @@ def eliminate_unit_pivots(
         for i in range(n_rows)
         if not dead_row[i] and rows[i]
     ]
+    stopped = cyclic  # the loop ended at the probe, on exactly these rows and columns
     return UnitReduction(
-        pivots, left, len(renumber), n_rows - pivots, kept, list(renumber) if keep_pivots else []
+        pivots,
+        left,
+        len(renumber),
+        n_rows - pivots,
+        kept,
+        list(renumber) if keep_pivots else [],
+        dense if stopped else None,
+        matrix if stopped else None,
     )
 
 
@@ -198,20 +217,22 @@ DENSE_SHARE = 0.12
 NEARLY_CYCLIC = 8
 
 
-def _nearly_cyclic(live: list[dict[int, int]], columns: list[int]) -> bool:
-    """At most ``NEARLY_CYCLIC`` invariant factors of the remaining matrix divisible by 2 or by 3
-    (its corank modulo each prime; square remainders only)."""
+def _nearly_cyclic(live: list[dict[int, int]], columns: list[int]) -> tuple[bool, Any, Any]:
+    """Whether at most ``NEARLY_CYCLIC`` invariant factors of the remaining matrix are divisible
+    by 2 or by 3 (its corank modulo each prime; square remainders only), with the remainder as
+    dense rows and as an ``fmpz_mat`` (kept for the modular finish when the answer is yes)."""
     import flint
 
     if len(live) != len(columns):
-        return False
+        return False, None, None
     position = {j: k for k, j in enumerate(columns)}
     dense = [[0] * len(columns) for _ in live]
     for line, row in zip(dense, live, strict=True):
         for j, v in row.items():
             line[position[j]] = v
     matrix = flint.fmpz_mat(dense)  # one conversion; the reductions modulo p are in C
-    return all(len(live) - flint.nmod_mat(matrix, p).rank() <= NEARLY_CYCLIC for p in (2, 3))
+    ok = all(len(live) - flint.nmod_mat(matrix, p).rank() <= NEARLY_CYCLIC for p in (2, 3))
+    return ok, dense, matrix
 
 
 def extend_solution(reduction: UnitReduction, core_vector: list[int], n_columns: int) -> list[int]:

@@ -192,7 +192,8 @@ def sparse_cokernel_witness(
     if k <= SMALL_CORE:
         core = _core_diagonal(reduction.rows, reduction.n_columns, bound)
     else:
-        core, solution = modular_core(dense_rows(reduction.rows, reduction.n_columns), bound=bound)
+        dense = reduction.dense or dense_rows(reduction.rows, reduction.n_columns)
+        core, solution = modular_core(dense, bound=bound, matrix=reduction.matrix)
         if solution is not None and len(reduction.rows) == reduction.n_columns == k:
             orders, numerators = solution
             witness = (orders, [extend_solution(reduction, w, n_columns) for w in numerators])
