@@ -47,16 +47,11 @@ CASES: dict[str, tuple[Callable[[], nx.Graph], int]] = {
 
 def reduced_laplacian(G: nx.Graph) -> list[dict[int, int]]:
     """Sparse rows of the Laplacian of ``G`` without its last vertex."""
-    nodes = list(G)
-    index = {v: i for i, v in enumerate(nodes)}
-    n = len(nodes) - 1
-    rows: list[dict[int, int]] = [{} for _ in range(n)]
-    for i, v in enumerate(nodes[:n]):
-        rows[i][i] = G.degree(v)
-        for u in G[v]:
-            if index[u] < n:
-                rows[i][index[u]] = -1
-    return rows
+    from graphinv.matrices import laplacian_matrix
+
+    rows = laplacian_matrix(G).to_rows()
+    n = len(rows) - 1
+    return [{j: v for j, v in row.items() if j < n} for row in rows[:n]]
 
 
 def _first_call(case: str) -> None:

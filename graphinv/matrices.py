@@ -101,6 +101,21 @@ class LabelledMatrix:
             dense[i][j] = v
         return dense
 
+    def to_rows(self) -> list[dict[int, int]]:
+        """Sparse rows ``{column: value}`` of Python ints: the input of
+        :func:`graphinv.normalform.sparse_cokernel` and
+        :func:`graphinv.normalform.sparse_determinant`.
+
+        Examples
+        --------
+        >>> laplacian_matrix(nx.path_graph(3)).to_rows()
+        [{0: 1, 1: -1}, {0: -1, 1: 2, 2: -1}, {1: -1, 2: 1}]
+        """
+        rows: list[dict[int, int]] = [{} for _ in self.row_labels]
+        for i, j, v in self.entries():
+            rows[i][j] = v
+        return rows
+
     def to_scipy(self) -> scipy.sparse.csr_array:
         """A SciPy CSR array with ``int64`` entries.
 

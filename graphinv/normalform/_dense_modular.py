@@ -51,7 +51,7 @@ import threading
 from functools import partial
 from typing import Any
 
-from graphinv.normalform._level_determinant import CHUNK, P_MAX
+from graphinv.normalform._level_determinant import CHUNK, _check_primes
 from graphinv.normalform._matrix import InvalidMatrixError, as_int_rows
 
 __all__ = ["BASE", "MAX_WORKERS", "MEMORY_BUDGET", "dense_determinants"]
@@ -69,7 +69,6 @@ _KERNELS: list[Any] = []
 _KERNELS_LOCK = threading.Lock()
 _THREAD_SETTERS: list[list[Any]] = []
 np: Any = None  # numpy, bound on first use: the compiled kernels read it as a global
-_CHECKED_PRIMES: set[int] = set()
 
 
 def dense_determinants(rows: list[list[int]], primes: list[int]) -> list[int | None]:
@@ -220,22 +219,6 @@ def _blas_thread_setters() -> list[Any]:
             setters = []
         _THREAD_SETTERS.append(setters)
     return list(_THREAD_SETTERS[0])
-
-
-def _check_primes(primes: list[int]) -> list[int]:
-    moduli: list[int] = []
-    for q in primes:
-        if isinstance(q, bool) or not isinstance(q, int) or q not in _CHECKED_PRIMES:
-            if (
-                isinstance(q, bool)
-                or not isinstance(q, int)
-                or not 2 <= q < P_MAX
-                or any(q % s == 0 for s in range(2, int(q**0.5) + 1))
-            ):
-                raise ValueError(f"Argument 'primes' must hold primes below {P_MAX}, not {q!r}.")
-            _CHECKED_PRIMES.add(int(q))
-        moduli.append(int(q))
-    return moduli
 
 
 def _square_int_rows(rows: Any) -> list[list[int]]:

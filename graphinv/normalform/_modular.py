@@ -49,17 +49,38 @@ from graphinv.errors import GraphInvError
 
 __all__ = [
     "crt_determinant",
+    "crt_signed",
     "hadamard_bound",
+    "largest_primes",
     "modular_core",
     "modular_core_diagonal",
     "word_primes",
 ]
 
-_PRIMES: list[int] = []
+_PRIMES: dict[int, list[int]] = {}
 
 
 class _InternalCheckError(GraphInvError, ArithmeticError):
     """An internal consistency check of the modular finish failed (a bug; please report)."""
+
+
+def largest_primes(bits: int, count: int) -> list[int]:
+    """The ``count`` largest primes below ``2^bits``, in descending order (cached per ``bits``).
+
+    Examples
+    --------
+    >>> largest_primes(31, 2)
+    [2147483647, 2147483629]
+    """
+    import flint
+
+    found = _PRIMES.setdefault(bits, [])
+    candidate = (1 << bits) - 1 if not found else found[-1] - 2
+    while len(found) < count:
+        if flint.fmpz(candidate).is_prime():
+            found.append(candidate)
+        candidate -= 2
+    return found[:count]
 
 
 def word_primes(count: int) -> list[int]:
@@ -70,14 +91,7 @@ def word_primes(count: int) -> list[int]:
     >>> word_primes(2)
     [4611686018427387847, 4611686018427387817]
     """
-    import flint
-
-    candidate = (1 << 62) - 1 if not _PRIMES else _PRIMES[-1] - 2
-    while len(_PRIMES) < count:
-        if flint.fmpz(candidate).is_prime():
-            _PRIMES.append(candidate)
-        candidate -= 2
-    return _PRIMES[:count]
+    return largest_primes(62, count)
 
 
 def hadamard_bound(rows: list[dict[int, int]] | list[list[int]]) -> int:
@@ -117,13 +131,13 @@ def crt_determinant(
     import flint
 
     limit = 2 * (bound // divisor) + 1
+    residues: dict[int, int] = {}  # det C / divisor modulo each prime
+    product = 1
     if rows is not None and len(rows) >= DENSE_BATCH:
         from graphinv.normalform._dense_modular import dense_determinants
         from graphinv.normalform._level_determinant import float_primes
-        from graphinv.normalform._modular_elimination import crt_signed
 
-        residues: dict[int, int] = {}
-        product, offset = 1, 0
+        offset = 0
         while product <= limit:
             count = (limit // product).bit_length() // 21 + 2
             batch = [q for q in float_primes(offset + count)[offset:] if divisor % q]
@@ -132,26 +146,31 @@ def crt_determinant(
                 if r is not None:
                     residues[q] = r * pow(divisor % q, -1, q) % q
                     product *= q
-        return crt_signed(residues) * divisor
-    modulus = 1
-    value = 0
-    used = 0
     index = 0
-    while modulus <= limit:
+    while product <= limit:
         index += 1
         p = word_primes(index)[-1]
-        d_mod = divisor % p
-        if d_mod == 0:
-            continue
-        residue = int(flint.nmod_mat(C, p).det()) * pow(d_mod, -1, p) % p
-        # Garner step: value = value + modulus * t with value ≡ residue (mod p)
-        t = (residue - value) * pow(modulus % p, -1, p) % p
-        value += modulus * t
-        modulus *= p
-        used += 1
-    if value > modulus // 2:
-        value -= modulus
-    return value * divisor
+        if divisor % p:
+            residues[p] = int(flint.nmod_mat(C, p).det()) * pow(divisor % p, -1, p) % p
+            product *= p
+    return crt_signed(residues) * divisor
+
+
+def crt_signed(residues: dict[int, int]) -> int:
+    """The integer of least absolute value with the given residues (Garner's CRT).
+
+    Examples
+    --------
+    >>> crt_signed({5: 3, 7: 4})
+    -17
+    """
+    value = 0
+    product = 1
+    for p, r in residues.items():
+        t = (r - value) * pow(product % p, -1, p) % p
+        value += product * t
+        product *= p
+    return value - product if value > product // 2 else value
 
 
 def _mod_matrix(C: Any, p: int) -> Any:

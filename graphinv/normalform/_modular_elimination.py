@@ -23,19 +23,32 @@ from __future__ import annotations
 import heapq
 from typing import Any
 
-__all__ = ["crt_signed", "determinant_residues", "level_residues", "modular_determinant"]
+from graphinv.normalform._modular import crt_signed, largest_primes
 
-_PRIMES31: list[int] = []
+__all__ = ["determinant_residues", "level_residues", "modular_determinant"]
+
 _DENSE_MIN_FILL = 0.5
+
+
 def _primes31(count: int) -> list[int]:
+    return largest_primes(31, count)
+
+
+def _small_or_dense(rows: list[dict[int, int]]) -> bool:
+    """Matrices for which python-flint's exact dense determinant beats any residue route."""
+    n = len(rows)
+    return n <= 64 or sum(len(row) for row in rows) >= _DENSE_MIN_FILL * n * n
+
+
+def _flint_determinant(rows: list[dict[int, int]]) -> int:
     import flint
 
-    candidate = (1 << 31) - 1 if not _PRIMES31 else _PRIMES31[-1] - 2
-    while len(_PRIMES31) < count:
-        if flint.fmpz(candidate).is_prime():
-            _PRIMES31.append(candidate)
-        candidate -= 2
-    return _PRIMES31[:count]
+    n = len(rows)
+    dense = [[0] * n for _ in range(n)]
+    for i, row in enumerate(rows):
+        for j, v in row.items():
+            dense[i][j] = v
+    return int(flint.fmpz_mat(dense).det())
 
 
 def _inverse(a: Any, primes: Any) -> Any:
@@ -99,18 +112,10 @@ def modular_determinant(rows: list[dict[int, int]], bound: int) -> int:
     >>> modular_determinant([{0: 2, 1: -1}, {0: -1, 1: 2}], 5)
     3
     """
-    n = len(rows)
-    if n == 0:
+    if not rows:
         return 1
-    if n <= 64 or sum(len(row) for row in rows) >= _DENSE_MIN_FILL * n * n:
-        # Dense from the start: python-flint's exact determinant over the integers.
-        import flint
-
-        dense = [[0] * n for _ in range(n)]
-        for i, row in enumerate(rows):
-            for j, v in row.items():
-                dense[i][j] = v
-        return int(flint.fmpz_mat(dense).det())
+    if _small_or_dense(rows):
+        return _flint_determinant(rows)
     by_levels = level_residues(rows, 2 * bound + 1)
     if by_levels is not None:
         return crt_signed(by_levels)
@@ -126,15 +131,7 @@ def modular_determinant(rows: list[dict[int, int]], bound: int) -> int:
         if modulus > 2 * bound:
             break
         count += count // 2 + 2
-    value = 0
-    product = 1
-    for r, p in zip(residues, primes, strict=True):
-        t = (r - value) * pow(product % p, -1, p) % p
-        value += product * t
-        product *= p
-    if value > product // 2:
-        value -= product
-    return value
+    return crt_signed(dict(zip(primes, residues, strict=True)))
 
 
 def determinant_residues(
@@ -149,10 +146,9 @@ def determinant_residues(
     >>> all(r == 3 % p for p, r in residues.items())
     True
     """
-    n = len(rows)
-    if n <= 64 or sum(len(row) for row in rows) >= _DENSE_MIN_FILL * n * n:
-        # Small or dense: python-flint's exact determinant is quicker than many residues.
-        value = modular_determinant(rows, hadamard_limit(rows))
+    if _small_or_dense(rows):
+        # python-flint's exact determinant is quicker than many residues here.
+        value = _flint_determinant(rows) if rows else 1
         count = limit.bit_length() // 30 + 1
         usable = [p for p in _primes31(count + 16) if avoid % p][:count]
         return {p: value % p for p in usable}
@@ -208,33 +204,6 @@ def level_residues(
             return None
         count = max(2, (limit // product).bit_length() // 21 + 2)
     return found
-
-
-def crt_signed(residues: dict[int, int]) -> int:
-    """The integer of least absolute value with the given residues (Garner's CRT).
-
-    Examples
-    --------
-    >>> crt_signed({5: 3, 7: 4})
-    -17
-    """
-    value = 0
-    product = 1
-    for p, r in residues.items():
-        t = (r - value) * pow(product % p, -1, p) % p
-        value += product * t
-        product *= p
-    return value - product if value > product // 2 else value
-
-
-def hadamard_limit(rows: list[dict[int, int]]) -> int:
-    """Hadamard's bound: the product of the rows' Euclidean lengths, rounded up."""
-    from math import isqrt
-
-    product = 1
-    for row in rows:
-        product *= sum(v * v for v in row.values())
-    return isqrt(product - 1) + 1 if product else 0
 
 
 class _Pool:

@@ -44,6 +44,7 @@ from graphinv.normalform._matrix import (
     chain_normalize,
 )
 from graphinv.normalform._sparse import (
+    UnitReduction,
     dense_rows,
     eliminate_unit_pivots,
     small_pivots,
@@ -97,16 +98,22 @@ class Cokernel:
         }
 
 
-def _core_diagonal(rows: list[dict[int, int]], n_columns: int, bound: int) -> list[int]:
-    """Nonzero Smith invariants (ones included, chain order) of a reduced core."""
-    k = min(len(rows), n_columns)
+def _core(
+    reduction: UnitReduction, bound: int
+) -> tuple[list[int], tuple[list[int], list[list[int]]] | None]:
+    """Nonzero Smith invariants (ones included, chain order) of the core left by unit-pivot
+    elimination, and the modular finish's two rational solutions when it ran (see
+    :func:`graphinv.normalform._modular.modular_core`).  A dense remainder built by the
+    elimination's probe is reused, not rebuilt."""
+    k = min(len(reduction.rows), reduction.n_columns)
     if k == 0:
-        return []
+        return [], None
+    dense = reduction.dense or dense_rows(reduction.rows, reduction.n_columns)
     if k <= SMALL_CORE:
-        return chain_normalize(dense_pivots(dense_rows(rows, n_columns)))
-    from graphinv.normalform._modular import modular_core_diagonal
+        return chain_normalize(dense_pivots(dense)), None
+    from graphinv.normalform._modular import modular_core
 
-    return modular_core_diagonal(dense_rows(rows, n_columns), bound=bound)
+    return modular_core(dense, bound=bound, matrix=reduction.matrix)
 
 
 def _reduced_invariants(rows: list[dict[int, int]], n_columns: int) -> tuple[int, list[int]]:
@@ -119,7 +126,7 @@ def _reduced_invariants(rows: list[dict[int, int]], n_columns: int) -> tuple[int
 
     bound = hadamard_bound([row for row in rows if row])
     reduction = eliminate_unit_pivots(rows, n_columns, dense_stop=True)
-    return reduction.pivots, _core_diagonal(reduction.rows, reduction.n_columns, bound)
+    return reduction.pivots, _core(reduction, bound)[0]
 
 
 # Matrices with at most this many entries skip the sparse bookkeeping (the batch engine calls
@@ -181,22 +188,17 @@ def sparse_cokernel_witness(
     Abbott, Bronstein, Mulders, ISSAC 1999; Dumas, Saunders, Villard, J. Symbolic Comput. 32
     (2001).
     """
-    from graphinv.normalform._modular import hadamard_bound, modular_core
+    from graphinv.normalform._modular import hadamard_bound
     from graphinv.normalform._sparse import extend_solution
 
     checked = as_sparse_int_rows(rows, n_columns)
     bound = hadamard_bound([row for row in checked if row])
     reduction = eliminate_unit_pivots(checked, n_columns, keep_pivots=True, dense_stop=True)
-    k = min(len(reduction.rows), reduction.n_columns)
+    core, solution = _core(reduction, bound)
     witness = None
-    if k <= SMALL_CORE:
-        core = _core_diagonal(reduction.rows, reduction.n_columns, bound)
-    else:
-        dense = reduction.dense or dense_rows(reduction.rows, reduction.n_columns)
-        core, solution = modular_core(dense, bound=bound, matrix=reduction.matrix)
-        if solution is not None and len(reduction.rows) == reduction.n_columns == k:
-            orders, numerators = solution
-            witness = (orders, [extend_solution(reduction, w, n_columns) for w in numerators])
+    if solution is not None:  # the core was square and nonsingular
+        orders, numerators = solution
+        witness = (orders, [extend_solution(reduction, w, n_columns) for w in numerators])
     rank = reduction.pivots + len(core)
     return Cokernel(tuple(d for d in core if d > 1), n_columns - rank), witness
 

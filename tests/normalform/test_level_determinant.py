@@ -14,6 +14,7 @@ import networkx as nx
 import pytest
 from sympy import isprime
 
+from graphinv.matrices import laplacian_matrix
 from graphinv.normalform import InvalidMatrixError
 from graphinv.normalform import _level_determinant as level_module
 from graphinv.normalform._level_determinant import (
@@ -27,19 +28,10 @@ PRIMES = [*float_primes(4), 2, 3, 101]
 
 
 def reduced_laplacian(G: nx.Graph) -> list[dict[int, int]]:
-    """Sparse rows of the Laplacian of ``G`` with the last vertex deleted."""
-    nodes = list(G)
-    index = {v: i for i, v in enumerate(nodes)}
-    n = len(nodes) - 1
-    rows: list[dict[int, int]] = [{} for _ in range(n)]
-    for i, v in enumerate(nodes[:n]):
-        for u in G[v]:
-            j = index[u]
-            if u != v:
-                rows[i][i] = rows[i].get(i, 0) + 1
-                if j < n:
-                    rows[i][j] = rows[i].get(j, 0) - 1
-    return rows
+    """Sparse rows of the Laplacian of ``G`` with its last vertex deleted."""
+    rows = laplacian_matrix(G).to_rows()
+    n = len(rows) - 1
+    return [{j: v for j, v in row.items() if j < n} for row in rows[:n]]
 
 
 def full_laplacian(G: nx.Graph) -> list[dict[int, int]]:
