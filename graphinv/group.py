@@ -518,7 +518,10 @@ def _block_group(
         return ([m] if m > 1 else []), m
     removed = _pick_removed(adjacency, block)
     rows = _reduced_rows(adjacency, block, removed)
-    group, witness = sparse_cokernel_witness([dict(r) for r in rows], n_columns=len(rows))
+    bound = _diagonal_bound(rows)
+    group, witness = sparse_cokernel_witness(
+        [dict(r) for r in rows], n_columns=len(rows), bound=bound
+    )
     if group.free_rank:
         raise CertificationError("a block's reduced Laplacian came out singular")
     factors = list(group.invariant_factors)
@@ -528,12 +531,12 @@ def _block_group(
         # exceeds (bound + order) / s.
         order = reduce(mul, factors, 1)
         try:
-            divisor = subgroup_order(rows, *witness)
+            divisor = subgroup_order(rows, *witness, enough=order)
         except ArithmeticError as error:
             raise CertificationError(
                 f"block: the solution behind the certificate fails: {error}"
             ) from error
-        if confirm_determinant(rows, order, bound=_diagonal_bound(rows), divisor=divisor):
+        if confirm_determinant(rows, order, bound=bound, divisor=divisor):
             return factors, order
     trees = _tree_count(rows)
     _certify(factors, trees, "block")

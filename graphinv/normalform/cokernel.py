@@ -164,14 +164,16 @@ def diagonal_of_rows(rows: list[list[int]], m: int, n: int) -> tuple[int, ...]:
 
 
 def sparse_cokernel_witness(
-    rows: Sequence[Mapping[int, int]], *, n_columns: int
+    rows: Sequence[Mapping[int, int]], *, n_columns: int, bound: int | None = None
 ) -> tuple[Cokernel, tuple[list[int], list[list[int]]] | None]:
     """:func:`sparse_cokernel`, with solutions that prove a divisor of the determinant.
 
     For a square nonsingular matrix whose core took the modular route, also
     ``(orders, vectors)`` with ``A w_j = 0 (mod o_j)``: the core's two rational solutions,
     extended through the unit pivots by back-substitution.  Check them with
-    :func:`graphinv.normalform.determinant.subgroup_order`.  ``None`` otherwise.
+    :func:`graphinv.normalform.determinant.subgroup_order`.  ``None`` otherwise.  ``bound``
+    may give a known bound on ``|det A|`` tighter than Hadamard's (for a reduced Laplacian, the
+    product of its diagonal entries); it sets how many primes the core's determinant needs.
 
     Examples
     --------
@@ -192,7 +194,8 @@ def sparse_cokernel_witness(
     from graphinv.normalform._sparse import extend_solution
 
     checked = as_sparse_int_rows(rows, n_columns)
-    bound = hadamard_bound([row for row in checked if row])
+    hadamard = hadamard_bound([row for row in checked if row])
+    bound = hadamard if bound is None else min(bound, hadamard)
     reduction = eliminate_unit_pivots(checked, n_columns, keep_pivots=True, dense_stop=True)
     core, solution = _core(reduction, bound)
     witness = None

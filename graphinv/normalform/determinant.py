@@ -15,6 +15,7 @@ G. E. Collins, "The calculation of multivariate polynomial resultants", J. ACM 1
 
 from __future__ import annotations
 
+import math
 from collections.abc import Mapping, Sequence
 from typing import Any
 
@@ -143,8 +144,6 @@ def determinant_divisor(rows: Sequence[Mapping[int, int]], modulus: int, vector:
     J. Abbott, M. Bronstein, T. Mulders, "Fast deterministic computation of determinants of
     dense matrices", ISSAC 1999 (a divisor of the determinant from a rational solution).
     """
-    import math
-
     for i, row in enumerate(rows):
         if sum(v * vector[j] for j, v in row.items()) % modulus:
             raise ArithmeticError(f"row {i} of A w is not divisible by the modulus")
@@ -157,7 +156,11 @@ def determinant_divisor(rows: Sequence[Mapping[int, int]], modulus: int, vector:
 
 
 def subgroup_order(
-    rows: Sequence[Mapping[int, int]], orders: Sequence[int], vectors: Sequence[Sequence[int]]
+    rows: Sequence[Mapping[int, int]],
+    orders: Sequence[int],
+    vectors: Sequence[Sequence[int]],
+    *,
+    enough: int | None = None,
 ) -> int:
     """A proven divisor of ``det A`` from integer vectors ``w_j`` with ``A w_j = 0 (mod o_j)``.
 
@@ -173,6 +176,10 @@ def subgroup_order(
     orders : sequence of int
     vectors : sequence of sequences of int
         One or two vectors.
+    enough : int, optional
+        Stop once a divisor of the order this large is proven (the subgroup's image on the
+        coordinates read so far: the projection to some coordinates is a homomorphism of
+        ``Q^n / Z^n``, so that image's order divides ``|H|``).  Without it the exact order.
 
     Returns
     -------
@@ -188,6 +195,8 @@ def subgroup_order(
     >>> A = [{0: 2, 1: 0}, {0: 0, 1: 2}]  # Z/2 + Z/2
     >>> subgroup_order(A, [2, 2], [[1, 0], [0, 1]])
     4
+    >>> subgroup_order(A, [2, 2], [[1, 0], [0, 1]], enough=2)  # a divisor of 4, at least 2
+    2
 
     References
     ----------
@@ -200,7 +209,10 @@ def subgroup_order(
         return checked[0]
     if len(checked) != 2:
         raise ValueError("subgroup_order takes one or two vectors")
-    return pair_subgroup_order([list(w) for w in vectors], list(orders))
+    exponent = math.lcm(*checked)  # the exact orders' lcm divides |H| already
+    if enough is not None and exponent >= enough:
+        return exponent
+    return pair_subgroup_order([list(w) for w in vectors], list(orders), enough=enough)
 
 
 def confirm_determinant(
