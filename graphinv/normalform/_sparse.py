@@ -125,18 +125,48 @@ def eliminate_unit_pivots(
     >>> r.pivots, r.rows, r.n_columns
     (1, [{0: 3}], 1)
     """
+    if _compiled_fits(len(rows), n_columns):
+        reduction = _compiled_elimination(rows, n_columns, keep_pivots, dense_stop)
+        if reduction is not None:
+            return reduction
+    return _python_elimination(rows, n_columns, keep_pivots, dense_stop)
+
+
+@dataclass
+class _Progress:
+    """Pivots already taken (by the compiled kernel) when the Python loop takes over: their
+    number, their rows, which rows and columns they removed, and which rows are on the heap."""
+
+    pivots: int
+    kept: list[tuple[int, dict[int, int]]]
+    dead_row: list[bool]
+    dead_column: list[bool]
+    waiting: list[bool]
+
+
+def _python_elimination(
+    rows: list[dict[int, int]],
+    n_columns: int,
+    keep_pivots: bool,
+    probe: bool,
+    progress: _Progress | None = None,
+) -> UnitReduction:
+    """:func:`eliminate_unit_pivots` with Python integers and dict rows (any entry size),
+    from scratch or continuing after ``progress`` (dead rows of ``rows`` empty, live rows
+    zero in the dead columns); ``probe`` says whether the early stop is still to be tried."""
     n_rows = len(rows)
     columns: list[set[int]] = [set() for _ in range(n_columns)]
     for i, row in enumerate(rows):
         for j in row:
             columns[j].add(i)
-    dead_row = [False] * n_rows
-    dead_column = [False] * n_columns
-    heap = [(len(row), i) for i, row in enumerate(rows) if row]
+    if progress is None:
+        progress = _Progress(0, [], [False] * n_rows, [False] * n_columns, [True] * n_rows)
+    dead_row = progress.dead_row
+    dead_column = progress.dead_column
+    heap = [(len(row), i) for i, row in enumerate(rows) if row and progress.waiting[i]]
     heapq.heapify(heap)
-    pivots = 0
-    kept: list[tuple[int, dict[int, int]]] = []
-    probe = dense_stop
+    pivots = progress.pivots
+    kept = progress.kept
     cyclic, dense, matrix = False, None, None
     while heap:
         length, i = heapq.heappop(heap)
@@ -221,8 +251,6 @@ def _nearly_cyclic(live: list[dict[int, int]], columns: list[int]) -> tuple[bool
     """Whether at most ``NEARLY_CYCLIC`` invariant factors of the remaining matrix are divisible
     by 2 or by 3 (its corank modulo each prime; square remainders only), with the remainder as
     dense rows and as an ``fmpz_mat`` (kept for the modular finish when the answer is yes)."""
-    import flint
-
     if len(live) != len(columns):
         return False, None, None
     position = {j: k for k, j in enumerate(columns)}
@@ -230,9 +258,143 @@ def _nearly_cyclic(live: list[dict[int, int]], columns: list[int]) -> tuple[bool
     for line, row in zip(dense, live, strict=True):
         for j, v in row.items():
             line[position[j]] = v
-    matrix = flint.fmpz_mat(dense)  # one conversion; the reductions modulo p are in C
-    ok = all(len(live) - flint.nmod_mat(matrix, p).rank() <= NEARLY_CYCLIC for p in (2, 3))
+    ok, matrix = _nearly_cyclic_dense(dense)
     return ok, dense, matrix
+
+
+def _nearly_cyclic_dense(dense: list[list[int]]) -> tuple[bool, Any]:
+    """The test of :func:`_nearly_cyclic` on a square dense remainder, and its ``fmpz_mat``."""
+    import flint
+
+    matrix = flint.fmpz_mat(dense)  # one conversion; the reductions modulo p are in C
+    ok = all(len(dense) - flint.nmod_mat(matrix, p).rank() <= NEARLY_CYCLIC for p in (2, 3))
+    return ok, matrix
+
+
+COMPILED: bool | None = None
+"""Which elimination :func:`eliminate_unit_pivots` runs: ``None`` chooses by size (see
+``COMPILED_ENTRIES``), ``True`` the compiled kernel whenever its dense work array is within
+``COMPILED_ENTRIES[1]``, ``False`` always the Python loop.  Either way the result is exact:
+entries too large for the kernel are left to Python integers."""
+
+COMPILED_ENTRIES = (500, 1 << 22, 8_000)
+"""Matrix sizes (rows times columns) for the compiled kernel: from the first number on once the
+kernels are loaded in this process, from the third number on in any case, never above the second.
+Below the first, converting to and from the dense array costs more than the Python loop saves;
+above the second the ``int64`` work array (8 bytes per entry, 32 MiB there) is too large."""
+
+
+def _compiled_fits(n_rows: int, n_columns: int) -> bool:
+    size = n_rows * n_columns
+    if COMPILED is False or size > COMPILED_ENTRIES[1]:
+        return False
+    if COMPILED is True or size >= COMPILED_ENTRIES[2]:
+        return True
+    # Loading numba and the cached kernels takes about half a second once per process: worth
+    # it for one matrix only from the upper threshold on, for smaller ones once it is paid.
+    from graphinv.normalform._unit_kernel import kernels_loaded
+
+    return size >= COMPILED_ENTRIES[0] and kernels_loaded()
+
+
+def _compiled_elimination(
+    rows: list[dict[int, int]], n_columns: int, keep_pivots: bool, dense_stop: bool
+) -> UnitReduction | None:
+    """:func:`eliminate_unit_pivots` by the compiled kernel of
+    :mod:`graphinv.normalform._unit_kernel` on a dense ``int64`` copy; ``None`` (with ``rows``
+    untouched) when an input entry is out of the kernel's range.  A step the kernel cannot take
+    exactly hands the state over to the Python loop."""
+    import numpy as np
+
+    from graphinv.normalform._unit_kernel import DENSE, DONE, ENTRY_LIMIT, UnitState
+
+    n_rows = len(rows)
+    lengths = [len(row) for row in rows]
+    try:
+        values = np.fromiter(
+            (v for row in rows for v in row.values()), dtype=np.int64, count=sum(lengths)
+        )
+    except OverflowError:
+        return None
+    if np.any((values >= ENTRY_LIMIT) | (values <= -ENTRY_LIMIT)):
+        return None
+    where = (
+        np.repeat(np.arange(n_rows), lengths),
+        np.fromiter((j for row in rows for j in row), dtype=np.int64, count=len(values)),
+    )
+    A = np.zeros((n_rows, n_columns), dtype=np.int64)
+    A[where] = values
+    order = np.zeros((n_rows, n_columns), dtype=np.int64)
+    order[where] = np.arange(len(values))  # each row's dict order breaks ties, as in Python
+    state = UnitState(A, order)
+    probe = dense_stop
+    status = state.run(probe_length=DENSE_ROW, probe_share=DENSE_SHARE, probe=probe)
+    dense: list[list[int]] | None = None
+    matrix = None
+    if status == DENSE:
+        probe = False
+        live_rows, live_columns = state.live_rows(), state.live_columns()
+        if len(live_rows) == len(live_columns):
+            dense = A[np.ix_(live_rows, live_columns)].tolist()
+            cyclic, matrix = _nearly_cyclic_dense(dense)
+            if not cyclic:
+                dense = matrix = None
+        if dense is None:
+            status = state.run(probe_length=DENSE_ROW, probe_share=DENSE_SHARE, probe=False)
+    pivots = state.pivots
+    live_rows, live_columns = state.live_rows(), state.live_columns()
+    kept: list[tuple[int, dict[int, int]]] = []
+    if keep_pivots:
+        chosen = state.pivot_row[:pivots]
+        kept = list(zip(state.pivot_column[:pivots].tolist(), _dict_rows(A[chosen]), strict=True))
+    if status != DONE and dense is None:
+        # OVERFLOW: the entries outgrew int64; Python integers take over from here, with the
+        # rows in their dict order and the heap as the Python loop would hold it.
+        remaining: list[dict[int, int]] = [{} for _ in range(n_rows)]
+        for i, row in zip(
+            live_rows.tolist(), _dict_rows(A[live_rows], order[live_rows]), strict=True
+        ):
+            remaining[i] = row
+        progress = _Progress(
+            pivots,
+            kept,
+            state.dead_row.tolist(),
+            state.dead_column.tolist(),
+            state.waiting.tolist(),
+        )
+        return _python_elimination(remaining, n_columns, keep_pivots, probe, progress)
+    left = _dict_rows(A[np.ix_(live_rows, live_columns)])
+    return UnitReduction(
+        pivots,
+        left,
+        len(live_columns),
+        n_rows - pivots,
+        kept,
+        live_columns.tolist() if keep_pivots else [],
+        dense,
+        matrix,
+    )
+
+
+def _dict_rows(block: Any, order: Any = None) -> list[dict[int, int]]:
+    """The rows of a 2-d ``int64`` array as ``{column: value}`` dicts of the nonzero entries,
+    each in increasing column order or, with ``order`` (stamps of the same shape), in
+    increasing stamp order."""
+    import numpy as np
+
+    row_index, column_index = np.nonzero(block)
+    if order is not None:
+        by_stamp = np.lexsort((order[row_index, column_index], row_index))
+        row_index, column_index = row_index[by_stamp], column_index[by_stamp]
+    columns = column_index.tolist()
+    values = block[row_index, column_index].tolist()
+    ends = np.searchsorted(row_index, np.arange(1, block.shape[0] + 1)).tolist()
+    rows = []
+    start = 0
+    for stop in ends:
+        rows.append(dict(zip(columns[start:stop], values[start:stop], strict=True)))
+        start = stop
+    return rows
 
 
 def extend_solution(reduction: UnitReduction, core_vector: list[int], n_columns: int) -> list[int]:
