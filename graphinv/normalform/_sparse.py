@@ -18,16 +18,142 @@ computations", J. Symbolic Comput. 32 (2001).
 from __future__ import annotations
 
 import heapq
+from collections.abc import Callable, Iterator, Mapping, Sequence
 from dataclasses import dataclass, field
-from typing import Any
+from itertools import chain
+from operator import mul
+from typing import Any, Generic, TypeVar, overload
 
 __all__ = [
+    "Deferred",
+    "PivotBlock",
     "UnitReduction",
     "dense_rows",
     "eliminate_unit_pivots",
     "extend_solution",
     "sparse_rows",
 ]
+
+
+Item = TypeVar("Item")
+
+
+class Deferred(Sequence[Item], Generic[Item]):
+    """A read-only list whose items are built on first use (its length is known at once).
+
+    The compiled elimination leaves its rows in a NumPy array; turning them into dicts costs
+    about a millisecond per few thousand entries, and callers often need only the count.
+
+    Examples
+    --------
+    >>> rows = Deferred(2, lambda: [{0: 3}, {1: -1}])
+    >>> len(rows), rows == [{0: 3}, {1: -1}], rows[-1]
+    (2, True, {1: -1})
+
+    References
+    ----------
+    Dumas, Saunders, Villard, J. Symbolic Comput. 32 (2001).
+    """
+
+    __slots__ = ("_build", "_items", "_length")
+
+    def __init__(self, length: int, build: Callable[[], list[Item]]) -> None:
+        self._length = length
+        self._build: Callable[[], list[Item]] | None = build
+        self._items: list[Item] | None = None
+
+    def _list(self) -> list[Item]:
+        if self._items is None:
+            assert self._build is not None
+            self._items = self._build()
+            self._build = None
+        return self._items
+
+    def __len__(self) -> int:
+        return self._length
+
+    @overload
+    def __getitem__(self, index: int) -> Item: ...
+
+    @overload
+    def __getitem__(self, index: slice) -> list[Item]: ...
+
+    def __getitem__(self, index: int | slice) -> Item | list[Item]:
+        return self._list()[index]
+
+    def __iter__(self) -> Iterator[Item]:
+        return iter(self._list())
+
+    def __reversed__(self) -> Iterator[Item]:
+        return reversed(self._list())
+
+    def __eq__(self, other: object) -> bool:
+        if isinstance(other, Deferred):
+            other = other._list()
+        return isinstance(other, list) and self._list() == other
+
+    __hash__ = None  # type: ignore[assignment]  # equal to a list, so unhashable like one
+
+    def __repr__(self) -> str:
+        return repr(self._list())
+
+
+class PivotBlock:
+    """The pivot rows left by the compiled elimination, kept compact for back-substitution.
+
+    Parameters
+    ----------
+    columns : numpy.ndarray
+        The pivot column of each pivot row, in elimination order.
+    block : numpy.ndarray
+        ``int64`` array, row ``t`` the ``t``-th pivot row as it was when chosen.
+
+    Examples
+    --------
+    >>> import numpy
+    >>> block = PivotBlock(numpy.array([1]), numpy.array([[2, -1, 0]]))
+    >>> block.rows(), block.flat()
+    ([(1, {0: 2, 1: -1})], ([1], [-1], [0, 1], [2, -1], [2]))
+
+    References
+    ----------
+    Dumas, Saunders, Villard, J. Symbolic Comput. 32 (2001).
+    """
+
+    __slots__ = ("_flat", "block", "columns")
+
+    def __init__(self, columns: Any, block: Any) -> None:
+        self.columns = columns
+        self.block = block
+        self._flat: tuple[list[int], list[int], list[int], list[int], list[int]] | None = None
+
+    def flat(self) -> tuple[list[int], list[int], list[int], list[int], list[int]]:
+        """``(pivot columns, pivot entries, entry columns, entry values, row ends)``: row ``t``
+        is ``entry columns[ends[t-1]:ends[t]]`` with the matching values, increasing columns."""
+        if self._flat is None:
+            import numpy as np
+
+            row_index, column_index = np.nonzero(self.block)
+            ends = np.searchsorted(row_index, np.arange(1, len(self.block) + 1))
+            pivot_entries = self.block[np.arange(len(self.block)), self.columns]
+            self._flat = (
+                self.columns.tolist(),
+                pivot_entries.tolist(),
+                column_index.tolist(),
+                self.block[row_index, column_index].tolist(),
+                ends.tolist(),
+            )
+        return self._flat
+
+    def rows(self) -> list[tuple[int, dict[int, int]]]:
+        """``(pivot column, {column: value})`` for each pivot row, in elimination order."""
+        pivot_columns, _, columns, values, ends = self.flat()
+        rows = []
+        start = 0
+        for j, stop in zip(pivot_columns, ends, strict=True):
+            rows.append((j, dict(zip(columns[start:stop], values[start:stop], strict=True))))
+            start = stop
+        return rows
 
 
 @dataclass(frozen=True)
@@ -38,34 +164,39 @@ class UnitReduction:
     ----------
     pivots : int
         How many unit pivots were eliminated (each an invariant factor 1).
-    rows : list of dict
-        The nonzero remaining rows, ``{column: value}`` with columns renumbered ``0..k-1``.
+    rows : sequence of dict
+        The nonzero remaining rows, ``{column: value}`` with columns renumbered ``0..k-1`` (a
+        list, or a :class:`Deferred` list built on first use).
     n_columns : int
         The number of remaining columns (some may be empty: free summands of the cokernel).
     n_rows : int
         The number of remaining rows, zero rows included.
-    pivot_rows : list of (int, dict)
+    pivot_rows : sequence of (int, dict)
         With ``keep_pivots=True``: each pivot's column and its row as it was when chosen (in
         the original column numbering), in elimination order.  Row ``t`` has no entry in the
         columns of earlier pivots, so these rows are an upper triangular block with ``+-1`` on
         its diagonal: back-substitution through them extends a solution of the core to one of
-        the whole matrix.
+        the whole matrix.  (A list, or a :class:`Deferred` list built on first use.)
     kept_columns : list of int
         With ``keep_pivots=True``: the original number of each remaining column.
     dense, matrix : list of lists of int, python-flint ``fmpz_mat``, or None
         After an early stop at a dense remainder: the remaining rows in dense form, both as
         Python ints and as an ``fmpz_mat`` (the probe built them; the modular finish reuses
         them).
+    pivot_block : PivotBlock or None
+        With ``keep_pivots=True`` after the compiled elimination: the pivot rows in compact
+        form (``pivot_rows`` is built from it), read by :func:`extend_solution`.
     """
 
     pivots: int
-    rows: list[dict[int, int]]
+    rows: Sequence[dict[int, int]]
     n_columns: int
     n_rows: int
-    pivot_rows: list[tuple[int, dict[int, int]]] = field(default_factory=list)
+    pivot_rows: Sequence[tuple[int, dict[int, int]]] = field(default_factory=list)
     kept_columns: list[int] = field(default_factory=list)
     dense: list[list[int]] | None = None
     matrix: Any = None
+    pivot_block: PivotBlock | None = None
 
 
 def sparse_rows(rows: list[list[int]]) -> list[dict[int, int]]:
@@ -79,7 +210,7 @@ def sparse_rows(rows: list[list[int]]) -> list[dict[int, int]]:
     return [{j: v for j, v in enumerate(row) if v} for row in rows]
 
 
-def dense_rows(rows: list[dict[int, int]], n_columns: int) -> list[list[int]]:
+def dense_rows(rows: Sequence[Mapping[int, int]], n_columns: int) -> list[list[int]]:
     """``{column: value}`` rows to dense nested lists with ``n_columns`` columns."""
     dense = []
     for row in rows:
@@ -309,10 +440,11 @@ def _compiled_elimination(
     from graphinv.normalform._unit_kernel import DENSE, DONE, ENTRY_LIMIT, UnitState
 
     n_rows = len(rows)
-    lengths = [len(row) for row in rows]
+    lengths = np.fromiter(map(len, rows), dtype=np.int64, count=n_rows)
+    total = int(lengths.sum())
     try:
         values = np.fromiter(
-            (v for row in rows for v in row.values()), dtype=np.int64, count=sum(lengths)
+            chain.from_iterable(map(dict.values, rows)), dtype=np.int64, count=total
         )
     except OverflowError:
         return None
@@ -320,7 +452,7 @@ def _compiled_elimination(
         return None
     where = (
         np.repeat(np.arange(n_rows), lengths),
-        np.fromiter((j for row in rows for j in row), dtype=np.int64, count=len(values)),
+        np.fromiter(chain.from_iterable(rows), dtype=np.int64, count=total),
     )
     A = np.zeros((n_rows, n_columns), dtype=np.int64)
     A[where] = values
@@ -343,10 +475,9 @@ def _compiled_elimination(
             status = state.run(probe_length=DENSE_ROW, probe_share=DENSE_SHARE, probe=False)
     pivots = state.pivots
     live_rows, live_columns = state.live_rows(), state.live_columns()
-    kept: list[tuple[int, dict[int, int]]] = []
+    block = None
     if keep_pivots:
-        chosen = state.pivot_row[:pivots]
-        kept = list(zip(state.pivot_column[:pivots].tolist(), _dict_rows(A[chosen]), strict=True))
+        block = PivotBlock(state.pivot_column[:pivots].copy(), A[state.pivot_row[:pivots]])
     if status != DONE and dense is None:
         # OVERFLOW: the entries outgrew int64; Python integers take over from here, with the
         # rows in their dict order and the heap as the Python loop would hold it.
@@ -357,22 +488,23 @@ def _compiled_elimination(
             remaining[i] = row
         progress = _Progress(
             pivots,
-            kept,
+            block.rows() if block is not None else [],
             state.dead_row.tolist(),
             state.dead_column.tolist(),
             state.waiting.tolist(),
         )
         return _python_elimination(remaining, n_columns, keep_pivots, probe, progress)
-    left = _dict_rows(A[np.ix_(live_rows, live_columns)])
+    core = A[np.ix_(live_rows, live_columns)]
     return UnitReduction(
         pivots,
-        left,
+        Deferred(len(live_rows), lambda: _dict_rows(core)),
         len(live_columns),
         n_rows - pivots,
-        kept,
+        Deferred(pivots, block.rows) if block is not None else [],
         live_columns.tolist() if keep_pivots else [],
         dense,
         matrix,
+        block,
     )
 
 
@@ -417,6 +549,16 @@ def extend_solution(reduction: UnitReduction, core_vector: list[int], n_columns:
     x = [0] * n_columns
     for j, value in zip(reduction.kept_columns, core_vector, strict=True):
         x[j] = value
+    if reduction.pivot_block is not None:
+        pivot_columns, pivot_entries, columns, values, ends = reduction.pivot_block.flat()
+        for t in range(len(pivot_columns) - 1, -1, -1):
+            start = ends[t - 1] if t else 0
+            # x is still 0 at the row's own pivot column, so the whole row can be summed.
+            total = sum(
+                map(mul, values[start : ends[t]], map(x.__getitem__, columns[start : ends[t]]))
+            )
+            x[pivot_columns[t]] = -pivot_entries[t] * total
+        return x
     for j, row in reversed(reduction.pivot_rows):
         a = row[j]
         total = 0

@@ -11,6 +11,7 @@ from __future__ import annotations
 
 import math
 import random
+from dataclasses import replace
 from functools import cache
 
 import flint
@@ -236,6 +237,9 @@ def test_extended_solution_solves_the_whole_matrix(seed: int, compiled: bool) ->
     w = [int(y[i, 0].numer()) * (s // int(y[i, 0].denom())) for i in range(k)]
     x = extend_solution(reduction, w, n)
     assert [x[j] for j in reduction.kept_columns] == w
+    # The compact pivot block (compiled path) and the dict rows give the same extension.
+    assert compiled == (reduction.pivot_block is not None)
+    assert extend_solution(replace(reduction, pivot_block=None), w, n) == x
     for _, row in reduction.pivot_rows:
         assert sum(v * x[c] for c, v in row.items()) == 0
     assert all(sum(v * x[j] for j, v in row.items()) % s == 0 for row in rows)
