@@ -382,6 +382,8 @@ def _nearly_cyclic(live: list[dict[int, int]], columns: list[int]) -> tuple[bool
     """Whether at most ``NEARLY_CYCLIC`` invariant factors of the remaining matrix are divisible
     by 2 or by 3 (its corank modulo each prime; square remainders only), with the remainder as
     dense rows and as an ``fmpz_mat`` (kept for the modular finish when the answer is yes)."""
+    import flint
+
     if len(live) != len(columns):
         return False, None, None
     position = {j: k for k, j in enumerate(columns)}
@@ -389,17 +391,9 @@ def _nearly_cyclic(live: list[dict[int, int]], columns: list[int]) -> tuple[bool
     for line, row in zip(dense, live, strict=True):
         for j, v in row.items():
             line[position[j]] = v
-    ok, matrix = _nearly_cyclic_dense(dense)
-    return ok, dense, matrix
-
-
-def _nearly_cyclic_dense(dense: list[list[int]]) -> tuple[bool, Any]:
-    """The test of :func:`_nearly_cyclic` on a square dense remainder, and its ``fmpz_mat``."""
-    import flint
-
     matrix = flint.fmpz_mat(dense)  # one conversion; the reductions modulo p are in C
-    ok = all(len(dense) - flint.nmod_mat(matrix, p).rank() <= NEARLY_CYCLIC for p in (2, 3))
-    return ok, matrix
+    ok = all(len(live) - flint.nmod_mat(matrix, p).rank() <= NEARLY_CYCLIC for p in (2, 3))
+    return ok, dense, matrix
 
 
 COMPILED: bool | None = None
@@ -437,7 +431,13 @@ def _compiled_elimination(
     exactly hands the state over to the Python loop."""
     import numpy as np
 
-    from graphinv.normalform._unit_kernel import DENSE, DONE, ENTRY_LIMIT, UnitState
+    from graphinv.normalform._unit_kernel import (
+        DENSE,
+        DONE,
+        ENTRY_LIMIT,
+        UnitState,
+        ranks_mod_two_and_three,
+    )
 
     n_rows = len(rows)
     lengths = np.fromiter(map(len, rows), dtype=np.int64, count=n_rows)
@@ -464,13 +464,17 @@ def _compiled_elimination(
     dense: list[list[int]] | None = None
     matrix = None
     if status == DENSE:
+        # The test of _nearly_cyclic on the int64 remainder (ranks by the bit-packed kernels);
+        # the Python ints and the fmpz_mat are built only for a remainder that is kept.
         probe = False
         live_rows, live_columns = state.live_rows(), state.live_columns()
         if len(live_rows) == len(live_columns):
-            dense = A[np.ix_(live_rows, live_columns)].tolist()
-            cyclic, matrix = _nearly_cyclic_dense(dense)
-            if not cyclic:
-                dense = matrix = None
+            core = A[np.ix_(live_rows, live_columns)]
+            if all(len(core) - r <= NEARLY_CYCLIC for r in ranks_mod_two_and_three(core)):
+                import flint
+
+                dense = core.tolist()
+                matrix = flint.fmpz_mat(dense)
         if dense is None:
             status = state.run(probe_length=DENSE_ROW, probe_share=DENSE_SHARE, probe=False)
     pivots = state.pivots

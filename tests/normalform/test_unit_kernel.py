@@ -27,7 +27,7 @@ from graphinv.normalform._sparse import (
     eliminate_unit_pivots,
     extend_solution,
 )
-from graphinv.normalform._unit_kernel import DONE, OVERFLOW, UnitState
+from graphinv.normalform._unit_kernel import DONE, OVERFLOW, UnitState, ranks_mod_two_and_three
 
 Rows = list[dict[int, int]]
 
@@ -278,6 +278,27 @@ def test_both_paths_take_the_same_pivots(seed: int, monkeypatch: pytest.MonkeyPa
         grid = reduced_laplacian(nx.grid_2d_graph(10 + seed, 12))
         same_reduction(grid, len(grid), monkeypatch, keep_pivots=True, dense_stop=True)
         same_reduction(chain(12 + seed, 999), 12 + seed, monkeypatch, keep_pivots=True)
+
+
+@pytest.mark.parametrize("seed", range(40))
+def test_ranks_modulo_two_and_three_match_flint(seed: int) -> None:
+    # Reference: python-flint nmod_mat(., p).rank() on the same integer matrix.  Planted
+    # dependencies (a column sum, a multiple of 3 of a row, a row sum) make the ranks drop, and
+    # sizes around 64 and 128 exercise the word boundaries of the bit packing.
+    rng = np.random.default_rng(seed)
+    k, n = (int(x) for x in rng.integers(1, 150, size=2))
+    if seed % 4 == 0:
+        k = n = int(rng.choice([63, 64, 65, 128, 129]))
+    A = rng.integers(-200, 201, size=(k, n))
+    if n > 2:
+        A[:, 2] = A[:, 0] - 2 * A[:, 1]
+    if k > 3:
+        A[3] = 3 * A[0] + (A[1] if seed % 2 else 0)
+    if seed % 5 == 0:
+        A[:, :] = rng.integers(-1, 2, size=(k, n)) * 6 + A % 2  # mostly even, rank mod 3 low
+    F = flint.fmpz_mat(A.tolist())
+    expected = (flint.nmod_mat(F, 2).rank(), flint.nmod_mat(F, 3).rank())
+    assert ranks_mod_two_and_three(A) == expected
 
 
 def test_size_rule(monkeypatch: pytest.MonkeyPatch) -> None:
