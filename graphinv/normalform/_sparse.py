@@ -402,11 +402,13 @@ COMPILED: bool | None = None
 ``COMPILED_ENTRIES[1]``, ``False`` always the Python loop.  Either way the result is exact:
 entries too large for the kernel are left to Python integers."""
 
-COMPILED_ENTRIES = (500, 1 << 22, 8_000)
+COMPILED_ENTRIES = (500, 1 << 22, 4_900)
 """Matrix sizes (rows times columns) for the compiled kernel: from the first number on once the
-kernels are loaded in this process, from the third number on in any case, never above the second.
-Below the first, converting to and from the dense array costs more than the Python loop saves;
-above the second the ``int64`` work array (8 bytes per entry, 32 MiB there) is too large."""
+kernels are loaded in this process, from the third number on in any case, never above the
+second.  Below the first, converting to and from the dense array costs more than the Python
+loop saves (measured crossover near 20 x 20).  Loading numba costs about a second once per
+process; from about 70 x 70 on the modular finish and the determinant certificate load it
+anyway.  Above the second the work arrays (12 bytes per entry, 48 MiB there) are too large."""
 
 
 def _compiled_fits(n_rows: int, n_columns: int) -> bool:
@@ -415,8 +417,8 @@ def _compiled_fits(n_rows: int, n_columns: int) -> bool:
         return False
     if COMPILED is True or size >= COMPILED_ENTRIES[2]:
         return True
-    # Loading numba and the cached kernels takes about half a second once per process: worth
-    # it for one matrix only from the upper threshold on, for smaller ones once it is paid.
+    # Loading numba and the cached kernels takes about a second once per process: paid for
+    # small matrices only when it is paid already.
     from graphinv.normalform._unit_kernel import kernels_loaded
 
     return size >= COMPILED_ENTRIES[0] and kernels_loaded()
@@ -431,34 +433,14 @@ def _compiled_elimination(
     exactly hands the state over to the Python loop."""
     import numpy as np
 
-    from graphinv.normalform._unit_kernel import (
-        DENSE,
-        DONE,
-        ENTRY_LIMIT,
-        UnitState,
-        ranks_mod_two_and_three,
-    )
+    from graphinv.normalform._unit_kernel import DENSE, DONE, UnitState, ranks_mod_two_and_three
 
     n_rows = len(rows)
-    lengths = np.fromiter(map(len, rows), dtype=np.int64, count=n_rows)
-    total = int(lengths.sum())
-    try:
-        values = np.fromiter(
-            chain.from_iterable(map(dict.values, rows)), dtype=np.int64, count=total
-        )
-    except OverflowError:
+    arrays = _dense_arrays(rows, n_columns)
+    if arrays is None:
         return None
-    if np.any((values >= ENTRY_LIMIT) | (values <= -ENTRY_LIMIT)):
-        return None
-    where = (
-        np.repeat(np.arange(n_rows), lengths),
-        np.fromiter(chain.from_iterable(rows), dtype=np.int64, count=total),
-    )
-    A = np.zeros((n_rows, n_columns), dtype=np.int64)
-    A[where] = values
-    order = np.zeros((n_rows, n_columns), dtype=np.int64)
-    order[where] = np.arange(len(values))  # each row's dict order breaks ties, as in Python
-    state = UnitState(A, order)
+    A, order, total = arrays
+    state = UnitState(A, order, next_stamp=total)
     probe = dense_stop
     status = state.run(probe_length=DENSE_ROW, probe_share=DENSE_SHARE, probe=probe)
     dense: list[list[int]] | None = None
@@ -510,6 +492,35 @@ def _compiled_elimination(
         matrix,
         block,
     )
+
+
+def _dense_arrays(rows: list[dict[int, int]], n_columns: int) -> tuple[Any, Any, int] | None:
+    """The rows as a dense ``int64`` array, the ``int32`` stamps of their entries in dict
+    order, and the number of entries; ``None`` if an entry is out of the kernel's range."""
+    import numpy as np
+
+    from graphinv.normalform._unit_kernel import ENTRY_LIMIT
+
+    n_rows = len(rows)
+    lengths = np.fromiter(map(len, rows), dtype=np.int64, count=n_rows)
+    total = int(lengths.sum())
+    try:
+        values = np.fromiter(
+            chain.from_iterable(map(dict.values, rows)), dtype=np.int64, count=total
+        )
+    except OverflowError:
+        return None
+    if np.any((values >= ENTRY_LIMIT) | (values <= -ENTRY_LIMIT)):
+        return None
+    where = (
+        np.repeat(np.arange(n_rows), lengths),
+        np.fromiter(chain.from_iterable(rows), dtype=np.int64, count=total),
+    )
+    A = np.zeros((n_rows, n_columns), dtype=np.int64)
+    A[where] = values
+    order = np.zeros((n_rows, n_columns), dtype=np.int32)
+    order[where] = np.arange(total, dtype=np.int32)  # each row's dict order breaks ties
+    return A, order, total
 
 
 def _dict_rows(block: Any, order: Any = None) -> list[dict[int, int]]:

@@ -49,6 +49,7 @@ __all__ = [
     "DONE",
     "ENTRY_LIMIT",
     "OVERFLOW",
+    "STAMP_LIMIT",
     "UnitState",
     "kernels_loaded",
     "ranks_mod_two_and_three",
@@ -64,6 +65,9 @@ DENSE = 1
 """Kernel status: the probe is on and the next pivot row is dense; nothing was changed."""
 OVERFLOW = 2
 """Kernel status: the next step could make an entry reach ``ENTRY_LIMIT``; it was not taken."""
+
+STAMP_LIMIT = (1 << 31) - 1
+"""Order stamps are ``int32``: below this (renumbered when the counter gets there)."""
 
 _KERNELS: list[Any] = []
 _KERNELS_LOCK = threading.Lock()
@@ -156,9 +160,15 @@ class UnitState:
         ``m x n`` C-contiguous ``int64`` array, entries below ``ENTRY_LIMIT`` in absolute
         value; it is eliminated in place.
     order : numpy.ndarray, optional
-        ``m x n`` ``int64`` order stamps of the nonzero entries (smaller first; the tie-break
-        among equally good pivot columns of a row), below ``m * n``; by default the column
-        number.  Updated in place as fill-in appears.
+        ``m x n`` ``int32`` order stamps of the nonzero entries (smaller first; the tie-break
+        among equally good pivot columns of a row), all below ``next_stamp``; by default the
+        column number.  Updated in place as fill-in appears.
+    next_stamp : int, optional
+        The stamp of the first fill-in; default ``n`` (for the default ``order``).
+    stamp_limit : int
+        Stamps stay below this: when the counter reaches it, the stamps of every live row are
+        renumbered ``0, 1, ...`` in their order and counting resumes at ``n``.  It must exceed
+        ``next_stamp`` and ``n``; small values are for tests.
 
     Attributes
     ----------
@@ -191,13 +201,26 @@ class UnitState:
     (2001).
     """
 
-    def __init__(self, A: Any, order: Any = None) -> None:
+    def __init__(
+        self,
+        A: Any,
+        order: Any = None,
+        *,
+        next_stamp: int | None = None,
+        stamp_limit: int = STAMP_LIMIT,
+    ) -> None:
         kernels = unit_kernels()
         m, n = A.shape
-        self.A = A
         if order is None:
-            order = np.empty((m, n), dtype=np.int64)
-            order[:] = np.arange(n, dtype=np.int64)
+            order = np.empty((m, n), dtype=np.int32)
+            order[:] = np.arange(n, dtype=np.int32)
+        if next_stamp is None:
+            next_stamp = n
+        if stamp_limit <= max(next_stamp, n):
+            raise ValueError(
+                f"Argument 'stamp_limit' must exceed next_stamp and n, not {stamp_limit}."
+            )
+        self.A = A
         self.order = order
         self.dead_row = np.zeros(m, dtype=np.bool_)
         self.dead_column = np.zeros(n, dtype=np.bool_)
@@ -207,8 +230,12 @@ class UnitState:
         self.column_count = np.zeros(n, dtype=np.int64)
         self.pivot_row = np.zeros(min(m, n), dtype=np.int64)
         self.pivot_column = np.zeros(min(m, n), dtype=np.int64)
-        # Scalars shared with the kernel: pivots taken, a bound on |entry|, the next stamp.
-        self._done = np.array([0, 1, m * n], dtype=np.int64)
+        # The live rows, unordered, and each row's place in that list.
+        self._live = np.arange(m, dtype=np.int64)
+        self._place = np.arange(m, dtype=np.int64)
+        # Scalars shared with the kernel: pivots taken, a bound on |entry|, the next stamp, the
+        # stamp limit, the number of live rows.
+        self._done = np.array([0, 1, next_stamp, stamp_limit, m], dtype=np.int64)
         self._scratch = np.empty((3, n), dtype=np.int64)
         self._targets = np.empty(m, dtype=np.int64)
         self._kernels = kernels
@@ -233,6 +260,8 @@ class UnitState:
                 self.dead_row,
                 self.dead_column,
                 self.waiting,
+                self._live,
+                self._place,
                 self.pivot_row,
                 self.pivot_column,
                 self._done,
@@ -290,6 +319,8 @@ def _eliminate(
     dead_row: Any,
     dead_column: Any,
     waiting: Any,
+    live: Any,
+    place: Any,
     pivot_row: Any,
     pivot_column: Any,
     done: Any,
@@ -301,21 +332,27 @@ def _eliminate(
 ) -> int:
     """Unit pivots until none is left (``DONE = 0``), the probe point (``DENSE = 1``) or an
     entry out of range (``OVERFLOW = 2``, returned before the step that would cause it).
-    ``done`` holds the number of pivots, a bound on ``|entry|`` and the next order stamp."""
+    ``done`` holds the number of pivots, a bound on ``|entry|``, the next order stamp, the
+    stamp limit and the number of live rows (``live[:count]``, ``place`` their positions)."""
     m, n = A.shape
     limit = 1 << 62
     safe = 4.6e18  # below 2^62 by far more than float64 rounding of the bound
     pivots = done[0]
     largest = done[1]
     stamp = done[2]
+    stamp_limit = done[3]
+    alive = done[4]
     while True:
         # The heap's next row: the shortest waiting row, ties to the lowest number.
         best = -1
         best_length = n + 1
-        for i in range(m):
-            if waiting[i] and row_length[i] < best_length:
-                best = i
-                best_length = row_length[i]
+        for position in range(alive):
+            i = live[position]
+            if waiting[i]:
+                length = row_length[i]
+                if length < best_length or (length == best_length and i < best):
+                    best = i
+                    best_length = length
         if best < 0:
             return 0
         if probe and best_length >= probe_length and best_length >= probe_share * (n - pivots):
@@ -347,9 +384,10 @@ def _eliminate(
         a = A[best, column]
         k = 0
         factor_bound = 0
-        for r in range(m):
+        for position in range(alive):
+            r = live[position]
             f = A[r, column]
-            if f != 0 and r != best and not dead_row[r]:
+            if f != 0 and r != best:
                 targets[k] = r
                 k += 1
                 if abs(f) > factor_bound:
@@ -368,6 +406,11 @@ def _eliminate(
         dead_row[best] = True
         dead_column[column] = True
         waiting[best] = False
+        alive -= 1
+        moved = live[alive]
+        live[place[best]] = moved
+        place[moved] = place[best]
+        done[4] = alive
         pivot_row[pivots] = best
         pivot_column[pivots] = column
         pivots += 1
@@ -388,6 +431,20 @@ def _eliminate(
                 if old == 0:
                     length += 1
                     column_count[j] += 1
+                    if stamp >= stamp_limit:
+                        # Renumber every live row's stamps 0, 1, ... in their order (this row
+                        # included, its new entry not yet written), so fill-in keeps going last.
+                        for position in range(alive):
+                            i = live[position]
+                            c = 0
+                            for q in range(n):
+                                if A[i, q] != 0:
+                                    scratch[2, c] = q
+                                    c += 1
+                            ranks = np.argsort(order[i, scratch[2, :c]], kind="mergesort")
+                            for q in range(c):
+                                order[i, scratch[2, ranks[q]]] = q
+                        stamp = n
                     order[r, j] = stamp  # fill-in goes to the end of the row's order
                     stamp += 1
                 elif old == 1 or old == -1:

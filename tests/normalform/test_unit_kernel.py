@@ -27,7 +27,13 @@ from graphinv.normalform._sparse import (
     eliminate_unit_pivots,
     extend_solution,
 )
-from graphinv.normalform._unit_kernel import DONE, OVERFLOW, UnitState, ranks_mod_two_and_three
+from graphinv.normalform._unit_kernel import (
+    DONE,
+    OVERFLOW,
+    STAMP_LIMIT,
+    UnitState,
+    ranks_mod_two_and_three,
+)
 
 Rows = list[dict[int, int]]
 
@@ -278,6 +284,34 @@ def test_both_paths_take_the_same_pivots(seed: int, monkeypatch: pytest.MonkeyPa
         grid = reduced_laplacian(nx.grid_2d_graph(10 + seed, 12))
         same_reduction(grid, len(grid), monkeypatch, keep_pivots=True, dense_stop=True)
         same_reduction(chain(12 + seed, 999), 12 + seed, monkeypatch, keep_pivots=True)
+
+
+@pytest.mark.parametrize("seed", range(4))
+def test_stamp_renumbering_keeps_the_pivots(seed: int, monkeypatch: pytest.MonkeyPatch) -> None:
+    # The order stamps are int32 and get renumbered when the counter reaches its limit; with a
+    # limit just above n that happens every few fill-ins, and the pivots must stay those of the
+    # Python loop (the reference for the pivot order; its result is checked against
+    # python-flint above).
+    rng = random.Random(40 + seed)
+    rows = reduced_laplacian(nx.random_regular_graph(3 + seed % 2, 70, seed=seed))
+    rows = [dict(rng.sample(list(row.items()), len(row))) for row in rows]
+    n = len(rows)
+    monkeypatch.setattr(sparse, "COMPILED", False)
+    python = eliminate_unit_pivots([dict(r) for r in rows], n, keep_pivots=True)
+    arrays = sparse._dense_arrays(rows, n)
+    assert arrays is not None
+    A, order, total = arrays
+    for limit in (total + 1 + seed, STAMP_LIMIT):
+        state = UnitState(A.copy(), order.copy(), next_stamp=total, stamp_limit=limit)
+        status = state.run(probe_length=0, probe_share=0.0, probe=False)
+        if status == OVERFLOW:
+            pytest.skip("entries outgrew the kernel")
+        pivots = state.pivots
+        assert status == DONE and pivots == python.pivots
+        assert state.pivot_column[:pivots].tolist() == [c for c, _ in python.pivot_rows]
+        assert int(state.order.max()) < limit
+    with pytest.raises(ValueError, match="stamp_limit"):
+        UnitState(A.copy(), order.copy(), next_stamp=total, stamp_limit=n)
 
 
 @pytest.mark.parametrize("seed", range(40))
