@@ -10,6 +10,7 @@ Every test runs twice, once through the compiled kernel and once through the Pyt
 from __future__ import annotations
 
 import math
+import pickle
 import random
 from dataclasses import replace
 from functools import cache
@@ -145,6 +146,7 @@ def test_reduced_laplacians_keep_flint_smith_form(name: str, compiled: bool) -> 
             else:
                 assert reduction.dense is None and reduction.matrix is None
             assert reduction_invariants(reduction) == expected
+            assert pickle.loads(pickle.dumps(reduction.rows)) == list(reduction.rows)
             if keep_pivots:
                 check_pivot_rows(reduction, len(rows))
             else:
