@@ -9,11 +9,16 @@ order, with fill-in appended as it appears).  The kernel takes the same decision
 the shortest row still "waiting" (live, and changed since it was last skipped), and it keeps for
 every entry an order stamp (its place in the input dict, or a counter value when fill-in created
 it), processing the pivot row in stamp order so that fill-in is stamped as the dict would append
-it.  Per row it also keeps the number of nonzero and of ``+-1`` entries, per column the number of
-live rows, so a step costs one scan of the rows, one of the pivot row and one of the pivot
-column, and one multiply-subtract per nonzero entry of the pivot row and row to update.  A pivot
-row is never written after it is chosen (it is dead), so the pivot rows are read back from the
-array at the end, as they were when chosen.
+it.  Stamps are ``int32``; when the counter reaches ``STAMP_LIMIT`` every live row's stamps are
+renumbered in their order.  Per row the kernel also keeps the number of nonzero and of ``+-1``
+entries, per column the number of live rows, and it keeps a list of the live rows, so a step
+costs one pass over the live rows to choose the pivot and one to find the rows to update, one
+scan of the pivot row, and one multiply-subtract per nonzero entry of the pivot row and row to
+update.  A pivot row is never written after it is chosen (it is dead), so the pivot rows are read
+back from the array at the end, as they were when chosen.
+
+The early-stop probe needs the ranks modulo 2 and 3 of the dense remainder; they are computed
+here too, on rows packed into 64-bit words (:func:`ranks_mod_two_and_three`).
 
 Exactness: every entry is kept below ``ENTRY_LIMIT = 2^62`` in absolute value.  Before a step
 the kernel bounds its updates by ``max|factor| * max|pivot row entry| + max|entry|``; if that
@@ -37,6 +42,8 @@ H. M. Markowitz, "The elimination form of the inverse and its application to lin
 programming", Management Science 3 (1957).
 J.-G. Dumas, B. D. Saunders, G. Villard, "On efficient sparse integer matrix Smith normal form
 computations", J. Symbolic Comput. 32 (2001).
+T. J. Boothby, R. W. Bradshaw, "Bitslicing and the method of four Russians over larger finite
+fields", preprint (2009) (bit-sliced arithmetic modulo 3).
 """
 
 from __future__ import annotations
@@ -144,7 +151,7 @@ def ranks_mod_two_and_three(A: Any) -> tuple[int, int]:
     References
     ----------
     T. J. Boothby, R. W. Bradshaw, "Bitslicing and the method of four Russians over larger
-    finite fields", arXiv:0901.1413 (2009) (bit-sliced arithmetic modulo 3).
+    finite fields", preprint (2009) (bit-sliced arithmetic modulo 3).
     """
     kernels = unit_kernels()
     A = np.ascontiguousarray(A, dtype=np.int64)
