@@ -113,8 +113,7 @@ def unit_kernels() -> Any:
                 SimpleNamespace(
                     count=jit(_count),
                     eliminate=jit(_eliminate),
-                    rank_mod_two=jit(_rank_mod_two),
-                    rank_mod_three=jit(_rank_mod_three),
+                    packed_rank=jit(_packed_rank),
                 )
             )
     return _KERNELS[0]
@@ -155,7 +154,7 @@ def ranks_mod_two_and_three(A: Any) -> tuple[int, int]:
     """
     kernels = unit_kernels()
     A = np.ascontiguousarray(A, dtype=np.int64)
-    return int(kernels.rank_mod_two(A)), int(kernels.rank_mod_three(A))
+    return int(kernels.packed_rank(A, 2)), int(kernels.packed_rank(A, 3))
 
 
 class UnitState:
@@ -471,45 +470,14 @@ def _eliminate(
         done[2] = stamp
 
 
-def _rank_mod_two(A: Any) -> int:
-    """Rank modulo 2, rows packed into 64-bit words (a row operation is a word-wise xor)."""
-    k, n = A.shape
-    words = (n + 63) // 64
-    B = np.zeros((k, words), dtype=np.uint64)
-    one = np.uint64(1)
-    for i in range(k):
-        for j in range(n):
-            if A[i, j] & 1:
-                B[i, j >> 6] |= one << np.uint64(j & 63)
-    rank = 0
-    for c in range(n):
-        w = c >> 6
-        bit = one << np.uint64(c & 63)
-        pivot = -1
-        for r in range(rank, k):
-            if B[r, w] & bit:
-                pivot = r
-                break
-        if pivot < 0:
-            continue
-        if pivot != rank:
-            for x in range(w, words):
-                B[pivot, x], B[rank, x] = B[rank, x], B[pivot, x]
-        for r in range(rank + 1, k):
-            if B[r, w] & bit:
-                for x in range(w, words):
-                    B[r, x] ^= B[rank, x]
-        rank += 1
-        if rank == k:
-            break
-    return rank
+def _packed_rank(A: Any, modulus: int) -> int:
+    """Rank modulo ``modulus`` (2 or 3), Gaussian elimination on rows packed into 64-bit words.
 
-
-def _rank_mod_three(A: Any) -> int:
-    """Rank modulo 3 on two bit planes: bit ``j`` of ``L[i]`` says ``a_ij = 1``, of ``H[i]``
-    that ``a_ij = 2`` (mod 3).  The sum of ``(al, ah)`` and ``(bl, bh)`` is
-    ``sl = ((al ^ bl) & ~(ah | bh)) | (ah & bh)``, ``sh = ((ah ^ bh) & ~(al | bl)) | (al & bl)``
-    (check the nine cases); ``-b`` swaps the planes."""
+    Bit ``j`` of ``L[i]`` says ``a_ij = 1``, of ``H[i]`` that ``a_ij = 2`` (modulo 3; ``H`` stays
+    zero modulo 2).  Modulo 2 a row operation is a xor.  Modulo 3 the sum of ``(al, ah)`` and
+    ``(bl, bh)`` is ``sl = ((al ^ bl) & ~(ah | bh)) | (ah & bh)``,
+    ``sh = ((ah ^ bh) & ~(al | bl)) | (al & bl)`` (check the nine cases), and ``-b`` swaps the
+    planes."""
     k, n = A.shape
     words = (n + 63) // 64
     L = np.zeros((k, words), dtype=np.uint64)
@@ -517,9 +485,12 @@ def _rank_mod_three(A: Any) -> int:
     one = np.uint64(1)
     for i in range(k):
         for j in range(n):
-            residue = A[i, j] % 3
-            if residue < 0:
-                residue += 3
+            if modulus == 2:
+                residue = A[i, j] & 1
+            else:
+                residue = A[i, j] % 3  # a constant divisor compiles to a multiplication
+                if residue < 0:
+                    residue += 3
             if residue == 1:
                 L[i, j >> 6] |= one << np.uint64(j & 63)
             elif residue == 2:
@@ -541,21 +512,26 @@ def _rank_mod_three(A: Any) -> int:
                 H[pivot, x], H[rank, x] = H[rank, x], H[pivot, x]
         pivot_is_one = (L[rank, w] & bit) != 0
         for r in range(rank + 1, k):
-            if (L[r, w] | H[r, w]) & bit:
-                # Subtract q times the pivot row, q = entry / pivot entry: for q = 1 add the
-                # negated pivot row (planes swapped), for q = 2 add the pivot row (-2 = 1).
-                same = ((L[r, w] & bit) != 0) == pivot_is_one
+            if not (L[r, w] | H[r, w]) & bit:
+                continue
+            if modulus == 2:
                 for x in range(w, words):
-                    al = L[r, x]
-                    ah = H[r, x]
-                    if same:
-                        bl = H[rank, x]
-                        bh = L[rank, x]
-                    else:
-                        bl = L[rank, x]
-                        bh = H[rank, x]
-                    L[r, x] = ((al ^ bl) & ~(ah | bh)) | (ah & bh)
-                    H[r, x] = ((ah ^ bh) & ~(al | bl)) | (al & bl)
+                    L[r, x] ^= L[rank, x]
+                continue
+            # Subtract q times the pivot row, q = entry / pivot entry: for q = 1 add the
+            # negated pivot row (planes swapped), for q = 2 add the pivot row (-2 = 1).
+            same = ((L[r, w] & bit) != 0) == pivot_is_one
+            for x in range(w, words):
+                al = L[r, x]
+                ah = H[r, x]
+                if same:
+                    bl = H[rank, x]
+                    bh = L[rank, x]
+                else:
+                    bl = L[rank, x]
+                    bh = H[rank, x]
+                L[r, x] = ((al ^ bl) & ~(ah | bh)) | (ah & bh)
+                H[r, x] = ((ah ^ bh) & ~(al | bl)) | (al & bl)
         rank += 1
         if rank == k:
             break
