@@ -82,7 +82,7 @@ np: Any = None  # numpy, bound on first use: the compiled kernels read it as a g
 
 
 def unit_kernels() -> Any:
-    """The compiled kernels ``count`` and ``eliminate`` (numba, cached on disk).
+    """The compiled kernels ``count``, ``eliminate`` and ``packed_rank`` (numba, cached on disk).
 
     Examples
     --------

@@ -4,7 +4,7 @@ Reference library: python-flint (``fmpz_mat.snf`` for invariant factors, ``fmpz_
 exact rational solutions) on seeded random sparse matrices and reduced Laplacians.  A unit pivot
 removes one invariant factor 1 and keeps the rest (Dumas, Saunders, Villard, J. Symbolic Comput.
 32 (2001)), so the pivots' ones and the Smith form of the core must give the input's Smith form.
-Every test runs twice, once through the compiled kernel and once through the Python loop.
+Most tests run twice, once through the compiled kernel and once through the Python loop.
 """
 
 from __future__ import annotations
