@@ -76,6 +76,7 @@ def solve_lifting(
     *,
     det_bound: int,
     matrix: Any = None,
+    array: Any = None,
 ) -> tuple[list[int], list[list[int]]] | None:
     """Exact solutions of ``C y_j = b_j`` as ``(orders, numerators)``: ``y_j = w_j / o_j``.
 
@@ -90,6 +91,8 @@ def solve_lifting(
         more before the first attempt, then the lifting goes on by half until ``RETRIES``).
     matrix : python-flint ``fmpz_mat``, optional
         ``C`` already converted (used for the final exact check).
+    array : NumPy array, optional
+        ``C`` already as float64.
 
     Returns
     -------
@@ -109,13 +112,14 @@ def solve_lifting(
     import flint
     import numpy as np
 
-    from graphinv.normalform._level_determinant import _Arithmetic
+    from graphinv.normalform._level_determinant import _Arithmetic, float_residues
 
     k = len(rows)
     if k == 0 or any(len(row) != k for row in rows) or len(B) != k:
         return None
     width = len(B[0])
-    A = np.array(rows, dtype=np.float64)  # entries beyond 2^53 only need to be seen as large
+    # Entries beyond 2^53 only need to be seen as large.
+    A = np.array(rows, dtype=np.float64) if array is None else array
     largest = int(np.abs(A).max())
     rhs = max(abs(v) for row in B for v in row)
     if largest >= 1 << 40 or rhs >= 1 << 40:
@@ -126,9 +130,8 @@ def solve_lifting(
     p = 0
     inverse = None
     for candidate in _lifting_primes(bits):
-        reduced = np.mod(A, candidate)
         ops = _Arithmetic(np.array([float(candidate)]), False)
-        inv, _, ok = ops.inverse(reduced[None].copy())
+        inv, _, ok = ops.inverse(float_residues(A, [candidate]))
         if ok[0]:
             p, inverse = candidate, inv[0]
             break

@@ -56,7 +56,7 @@ from typing import Any
 
 from graphinv.normalform._matrix import as_sparse_int_rows
 
-__all__ = ["CHUNK", "P_MAX", "float_primes", "level_determinant"]
+__all__ = ["CHUNK", "P_MAX", "float_primes", "float_residues", "level_determinant"]
 
 P_MAX = 1 << 22
 """Every prime used is below this bound, so residue products are below ``2^44``."""
@@ -77,6 +77,30 @@ MEMORY_BUDGET = 1 << 29
 """Bytes of block storage aimed at: primes are processed in batches to stay near it."""
 
 _PRIMES: list[int] = []
+
+
+def float_residues(A: Any, primes: Any) -> Any:
+    """``A mod p`` for each prime, shape ``(W,) + A.shape``, float64 in ``[0, p)``.
+
+    ``A`` holds integers below ``2^53`` in absolute value (float64 or int64).  This is
+    ``A - p floor(A / p)`` with one correction either way: several times quicker than
+    ``numpy.mod`` on floats, and exact.
+
+    Examples
+    --------
+    >>> import numpy as np
+    >>> float_residues(np.array([[-7.0, 9.0]]), [5, 7]).tolist()
+    [[[3.0, 4.0]], [[0.0, 2.0]]]
+    """
+    import numpy as np
+
+    X = np.asarray(A, dtype=np.float64)[None]
+    p = np.asarray(primes, dtype=np.float64).reshape((-1,) + (1,) * (X.ndim - 1))
+    if X.size and np.abs(X).max() < p.min():
+        return np.where(X < 0, X + p, X)  # small entries (the usual case): one correction
+    rest = X - p * np.floor(X / p)
+    rest = np.where(rest < 0, rest + p, rest)
+    return np.where(rest >= p, rest - p, rest)
 
 
 def float_primes(count: int) -> list[int]:

@@ -109,18 +109,22 @@ def hadamard_bound(rows: list[dict[int, int]] | list[list[int]]) -> int:
     return isqrt(product - 1) + 1 if product else 0
 
 
-# Dense cores from this size on get their residues from the batched float-BLAS elimination.
+# Dense cores from these sizes on get their residues from a batched float-BLAS elimination.
 DENSE_BATCH = 200
+SMALL_BATCH = 40
 
 
 def crt_determinant(
-    C: Any, bound: int, divisor: int = 1, rows: list[list[int]] | None = None
+    C: Any, bound: int, divisor: int = 1, rows: list[list[int]] | None = None, array: Any = None
 ) -> int:
     """``det C`` for an ``fmpz_mat`` with ``|det C| <= bound`` and ``divisor | det C``.
 
-    From ``DENSE_BATCH`` rows on, when the rows are given as Python ints, all the residues come
-    from one batched elimination modulo primes below ``2^22``
-    (:mod:`graphinv.normalform._dense_modular`); otherwise python-flint works prime by prime.
+    When the rows are given as Python ints, all the residues come from one batched elimination
+    modulo primes below ``2^22``: from ``DENSE_BATCH`` rows on the recursive LU of
+    :mod:`graphinv.normalform._dense_modular`, from ``SMALL_BATCH`` rows on (entries below
+    ``2^53``) the block LU of :mod:`graphinv.normalform._level_determinant`.  Otherwise
+    python-flint works prime by prime.  ``array`` may pass the rows already as a float64
+    NumPy array.
 
     Examples
     --------
@@ -133,6 +137,10 @@ def crt_determinant(
     limit = 2 * (bound // divisor) + 1
     residues: dict[int, int] = {}  # det C / divisor modulo each prime
     product = 1
+    if rows is not None and SMALL_BATCH <= len(rows) < DENSE_BATCH:
+        found = _batched_residues(rows if array is None else array, limit, divisor)
+        if found is not None:
+            residues, product = found
     if rows is not None and len(rows) >= DENSE_BATCH:
         from graphinv.normalform._dense_modular import dense_determinants
         from graphinv.normalform._level_determinant import float_primes
@@ -154,6 +162,29 @@ def crt_determinant(
             residues[p] = int(flint.nmod_mat(C, p).det()) * pow(divisor % p, -1, p) % p
             product *= p
     return crt_signed(residues) * divisor
+
+
+def _batched_residues(rows: Any, limit: int, divisor: int) -> tuple[dict[int, int], int] | None:
+    """``det C / divisor`` modulo primes below ``2^22`` whose product exceeds ``limit``, all
+    primes in one batched float64 LU (:mod:`graphinv.normalform._level_determinant`); ``None``
+    for entries of ``2^53`` or more (no exact float residues)."""
+    import numpy as np
+
+    from graphinv.normalform._level_determinant import _Arithmetic, float_primes, float_residues
+
+    A = np.asarray(rows, dtype=np.float64)
+    if np.abs(A).max(initial=0) >= 2.0**53:
+        return None
+    count = limit.bit_length() // 21 + 1
+    primes = [q for q in float_primes(count + 8) if divisor % q][:count]
+    p = np.array(primes, dtype=np.float64)
+    det = _Arithmetic(p, False).determinant(float_residues(A, p))
+    residues: dict[int, int] = {}
+    product = 1
+    for q, r in zip(primes, det.tolist(), strict=True):
+        residues[q] = int(r) * pow(divisor % q, -1, q) % q
+        product *= q
+    return residues, product
 
 
 def crt_signed(residues: dict[int, int]) -> int:
@@ -452,10 +483,14 @@ def modular_core(
     # C and its transpose have the same invariant factors, so the order of ``c`` in
     # ``Z^k / C Z^k`` (the common denominator of ``C^{-1} c``) divides ``d_k`` just as well.
     solved = None
+    array = None
     if bound is not None:
+        import numpy as np
+
         from graphinv.normalform._dixon import solve_lifting
 
-        solved = solve_lifting(rows, B, det_bound=bound, matrix=C)  # exact when not None
+        array = np.array(rows, dtype=np.float64)  # shared by the lifting and the residues
+        solved = solve_lifting(rows, B, det_bound=bound, matrix=C, array=array)  # exact or None
     if solved is None:
         try:
             X = C.solve(flint.fmpz_mat(B))
@@ -474,7 +509,11 @@ def modular_core(
     divisor = math.lcm(s, pair_subgroup_order([w[:PREFIX] for w in numerators], orders))
     # A bound inherited from the matrix before elimination is far tighter than the core's own
     # Hadamard bound (which costs a pass over k^2 big entries), so the latter is only a default.
-    D = abs(crt_determinant(C, bound if bound is not None else hadamard_bound(rows), divisor, rows))
+    D = abs(
+        crt_determinant(
+            C, bound if bound is not None else hadamard_bound(rows), divisor, rows, array
+        )
+    )
     if D == 0 or D % divisor:
         raise _InternalCheckError("the determinant is not a multiple of a subgroup order")
     N = D // s
