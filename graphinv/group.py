@@ -54,7 +54,7 @@ from graphinv._graphs import require_nonempty, weighted_edges
 from graphinv.errors import GraphInvError, InvalidGraphError
 from graphinv.normalform import Cokernel, sparse_cokernel, sparse_determinant
 from graphinv.normalform._matrix import chain_normalize
-from graphinv.normalform.cokernel import sparse_cokernel_witness
+from graphinv.normalform.cokernel import sparse_cokernel_certified
 from graphinv.normalform.determinant import confirm_determinant, subgroup_order
 
 __all__ = [
@@ -519,7 +519,7 @@ def _block_group(
     removed = _pick_removed(adjacency, block)
     rows = _reduced_rows(adjacency, block, removed)
     bound = _diagonal_bound(rows)
-    group, witness = sparse_cokernel_witness(
+    group, witness = sparse_cokernel_certified(
         [dict(r) for r in rows], n_columns=len(rows), bound=bound
     )
     if group.free_rank:
@@ -531,12 +531,14 @@ def _block_group(
         # exceeds (bound + order) / s.
         order = reduce(mul, factors, 1)
         try:
-            divisor = subgroup_order(rows, *witness, enough=order)
+            divisor = subgroup_order(rows, witness.orders, witness.vectors, enough=order)
         except ArithmeticError as error:
             raise CertificationError(
                 f"block: the solution behind the certificate fails: {error}"
             ) from error
-        if confirm_determinant(rows, order, bound=bound, divisor=divisor):
+        # The residues of det L: the elimination's pivot order replayed on L's own entries
+        # (a separate computation; only the order is reused), else the level sweep.
+        if confirm_determinant(rows, order, bound=bound, divisor=divisor, pivots=witness.pivots):
             return factors, order
     trees = _tree_count(rows)
     _certify(factors, trees, "block")

@@ -117,7 +117,8 @@ SMALL_BATCH = 40
 def crt_determinant(
     C: Any, bound: int, divisor: int = 1, rows: list[list[int]] | None = None, array: Any = None
 ) -> int:
-    """``det C`` for an ``fmpz_mat`` with ``|det C| <= bound`` and ``divisor | det C``.
+    """``det C`` for an ``fmpz_mat`` with ``|det C| <= bound`` and ``divisor | det C``
+    (``C`` may be None when ``rows`` are given: it is then built if needed).
 
     When the rows are given as Python ints, all the residues come from one batched elimination
     modulo primes below ``2^22``: from ``DENSE_BATCH`` rows on the recursive LU of
@@ -159,6 +160,10 @@ def crt_determinant(
         index += 1
         p = word_primes(index)[-1]
         if divisor % p:
+            if C is None:
+                if rows is None:
+                    raise ValueError("crt_determinant needs the matrix or its rows")
+                C = flint.fmpz_mat(rows)
             residues[p] = int(flint.nmod_mat(C, p).det()) * pow(divisor % p, -1, p) % p
             product *= p
     return crt_signed(residues) * divisor
@@ -457,15 +462,20 @@ def modular_core_diagonal(
 
 
 def modular_core(
-    rows: list[list[int]], *, bound: int | None = None, seed: int = 0, matrix: Any = None
+    rows: list[list[int]],
+    *,
+    bound: int | None = None,
+    seed: int = 0,
+    matrix: Any = None,
+    array: Any = None,
 ) -> tuple[list[int], tuple[list[int], list[list[int]]] | None]:
     """:func:`modular_core_diagonal` and two rational solutions of ``C y = c``, ``c`` integral.
 
     The solutions are returned as ``(orders, numerators)`` with ``y_j = numerators[j] /
     orders[j]``; ``None`` when the core is singular or not square.  The subgroup they generate
     in ``C^{-1} Z^k / Z^k`` has an order dividing ``det C`` (Lagrange), which is what the
-    determinant certificate of :mod:`graphinv.group` builds on.  ``matrix`` may pass the same
-    rows already converted to a python-flint ``fmpz_mat``.
+    determinant certificate of :mod:`graphinv.group` builds on.  ``matrix`` and ``array`` may
+    pass the same rows already converted to a python-flint ``fmpz_mat`` or a NumPy array.
 
     Examples
     --------
@@ -475,23 +485,25 @@ def modular_core(
     import flint
 
     k = len(rows)
-    C = matrix if matrix is not None else flint.fmpz_mat(rows)  # the same rows, converted
-    if k == 0 or C.ncols() != k:
-        return _flint_fallback(C), None
+    C = matrix  # the same rows as an fmpz_mat, built only when a step below needs it
+    if k == 0 or any(len(row) != k for row in rows):
+        return _flint_fallback(C if C is not None else flint.fmpz_mat(rows)), None
     rng = random.Random(seed * 1_000_003 + k)
     B = [[rng.randrange(-(1 << 20), 1 << 20) for _ in range(2)] for _ in range(k)]
     # C and its transpose have the same invariant factors, so the order of ``c`` in
     # ``Z^k / C Z^k`` (the common denominator of ``C^{-1} c``) divides ``d_k`` just as well.
     solved = None
-    array = None
     if bound is not None:
         import numpy as np
 
         from graphinv.normalform._dixon import solve_lifting
 
-        array = np.array(rows, dtype=np.float64)  # shared by the lifting and the residues
-        solved = solve_lifting(rows, B, det_bound=bound, matrix=C, array=array)  # exact or None
+        if array is None:
+            array = np.array(rows, dtype=np.float64)  # shared by the lifting and the residues
+        solved = solve_lifting(rows, B, det_bound=bound, array=array)  # exact, or None
     if solved is None:
+        if C is None:
+            C = flint.fmpz_mat(rows)
         try:
             X = C.solve(flint.fmpz_mat(B))
         except ZeroDivisionError:
@@ -522,6 +534,8 @@ def modular_core(
     h = _second_invariant(numerators, orders, s)
     if N % h:
         raise _InternalCheckError("the determinant is not a multiple of the subgroup order")
+    if C is None:
+        C = flint.fmpz_mat(rows)
     # A prime p of h that does not divide N / h has v_p(D) = v_p(s) + v_p(h), which forces
     # v_p(d_k) = v_p(s), v_p(d_{k-1}) = v_p(h) and no p in the others: such primes ("settled")
     # need neither factoring nor ranks, which matters when N is a product of many large primes.

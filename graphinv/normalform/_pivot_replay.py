@@ -25,6 +25,7 @@ Schur complements); J.-G. Dumas, B. D. Saunders, G. Villard, J. Symbolic Comput.
 
 from __future__ import annotations
 
+from collections.abc import Mapping, Sequence
 from typing import Any
 
 __all__ = ["REPLAY_LIMIT", "replay_determinant"]
@@ -36,14 +37,14 @@ _KERNELS: list[Any] = []
 
 
 def replay_determinant(
-    rows: list[dict[int, int]], pivots: list[tuple[int, int]], primes: list[int]
+    rows: Sequence[Mapping[int, int]], pivots: Sequence[tuple[int, int]], primes: list[int]
 ) -> list[int] | None:
     """``det A mod p`` for each prime, by replaying the unit pivots ``(row, column)``.
 
     Parameters
     ----------
-    rows : list of dict
-        The square matrix ``A``, rows ``{column: int}``.
+    rows : sequence of mappings
+        The square matrix ``A``, rows ``{column: int}`` (read only).
     pivots : list of (int, int)
         Positions of ``+-1`` pivots, in elimination order, each in a row and column not used
         before.

@@ -189,12 +189,19 @@ class UnitReduction:
     kept_columns : list of int
         With ``keep_pivots=True``: the original number of each remaining column.
     dense, matrix : list of lists of int, python-flint ``fmpz_mat``, or None
-        After an early stop at a dense remainder: the remaining rows in dense form, both as
-        Python ints and as an ``fmpz_mat`` (the probe built them; the modular finish reuses
-        them).
+        After an early stop at a dense remainder: the remaining rows in dense form, as Python
+        ints and (after the Python loop, whose probe built it) as an ``fmpz_mat``; the modular
+        finish reuses them.
     pivot_block : PivotBlock or None
         With ``keep_pivots=True`` after the compiled elimination: the pivot rows in compact
         form (``pivot_rows`` is built from it), read by :func:`extend_solution`.
+    pivot_positions : list of (int, int)
+        With ``keep_pivots=True``: each pivot's ``(row, column)`` in the input, in elimination
+        order (a determinant can be recomputed along them, see
+        :mod:`graphinv.normalform._pivot_replay`).
+    array : numpy.ndarray or None
+        After an early stop in the compiled elimination: the dense remainder as ``int64``
+        (``matrix`` is then left for the consumer to build, if it needs one).
     """
 
     pivots: int
@@ -206,6 +213,8 @@ class UnitReduction:
     dense: list[list[int]] | None = None
     matrix: Any = None
     pivot_block: PivotBlock | None = None
+    pivot_positions: list[tuple[int, int]] = field(default_factory=list)
+    array: Any = None
 
 
 def sparse_rows(rows: list[list[int]]) -> list[dict[int, int]]:
@@ -293,6 +302,7 @@ class _Progress:
 
     pivots: int
     kept: list[tuple[int, dict[int, int]]]
+    positions: list[tuple[int, int]]
     dead_row: list[bool]
     dead_column: list[bool]
     waiting: list[bool]
@@ -314,13 +324,14 @@ def _python_elimination(
         for j in row:
             columns[j].add(i)
     if progress is None:
-        progress = _Progress(0, [], [False] * n_rows, [False] * n_columns, [True] * n_rows)
+        progress = _Progress(0, [], [], [False] * n_rows, [False] * n_columns, [True] * n_rows)
     dead_row = progress.dead_row
     dead_column = progress.dead_column
     heap = [(len(row), i) for i, row in enumerate(rows) if row and progress.waiting[i]]
     heapq.heapify(heap)
     pivots = progress.pivots
     kept = progress.kept
+    positions = progress.positions
     cyclic, dense, matrix = False, None, None
     while heap:
         length, i = heapq.heappop(heap)
@@ -349,6 +360,7 @@ def _python_elimination(
         a = row[best_column]
         if keep_pivots:
             kept.append((best_column, row))
+            positions.append((i, best_column))
         dead_row[i] = True
         dead_column[best_column] = True
         pivots += 1
@@ -393,6 +405,7 @@ def _python_elimination(
         list(renumber) if keep_pivots else [],
         dense if stopped else None,
         matrix if stopped else None,
+        pivot_positions=positions if keep_pivots else [],
     )
 
 
@@ -476,17 +489,18 @@ def _compiled_elimination(
         if len(live_rows) == len(live_columns):
             core = A[np.ix_(live_rows, live_columns)]
             if all(len(core) - r <= NEARLY_CYCLIC for r in ranks_mod_two_and_three(core)):
-                import flint
-
-                dense = core.tolist()
-                matrix = flint.fmpz_mat(dense)
+                dense = core.tolist()  # the fmpz_mat is left to the finish, which rarely needs it
         if dense is None:
             status = state.run(probe_length=DENSE_ROW, probe_share=DENSE_SHARE, probe=False)
     pivots = state.pivots
     live_rows, live_columns = state.live_rows(), state.live_columns()
     block = None
+    positions: list[tuple[int, int]] = []
     if keep_pivots:
         block = PivotBlock(state.pivot_column[:pivots].copy(), A[state.pivot_row[:pivots]])
+        positions = list(
+            zip(state.pivot_row[:pivots].tolist(), state.pivot_column[:pivots].tolist(), strict=True)
+        )
     if status != DONE and dense is None:
         # OVERFLOW: the entries outgrew int64; Python integers take over from here, with the
         # rows in their dict order and the heap as the Python loop would hold it.
@@ -498,6 +512,7 @@ def _compiled_elimination(
         progress = _Progress(
             pivots,
             block.rows() if block is not None else [],
+            positions,
             state.dead_row.tolist(),
             state.dead_column.tolist(),
             state.waiting.tolist(),
@@ -514,6 +529,8 @@ def _compiled_elimination(
         dense,
         matrix,
         block,
+        positions,
+        core if dense is not None else None,
     )
 
 

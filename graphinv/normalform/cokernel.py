@@ -113,7 +113,7 @@ def _core(
         return chain_normalize(dense_pivots(dense)), None
     from graphinv.normalform._modular import modular_core
 
-    return modular_core(dense, bound=bound, matrix=reduction.matrix)
+    return modular_core(dense, bound=bound, matrix=reduction.matrix, array=reduction.array)
 
 
 def _reduced_invariants(rows: list[dict[int, int]], n_columns: int) -> tuple[int, list[int]]:
@@ -163,6 +163,62 @@ def diagonal_of_rows(rows: list[list[int]], m: int, n: int) -> tuple[int, ...]:
     return tuple(nonzero + [0] * (min(m, n) - len(nonzero)))
 
 
+@dataclass(frozen=True)
+class CoreWitness:
+    """What the modular finish leaves for a determinant certificate (see
+    :func:`sparse_cokernel_witness`).
+
+    Attributes
+    ----------
+    orders : list of int
+    vectors : list of list of int
+        ``A w_j = 0 (mod o_j)`` for the whole matrix ``A``.
+    pivots : list of (int, int)
+        The unit pivots' positions ``(row, column)`` in elimination order.
+    """
+
+    orders: list[int]
+    vectors: list[list[int]]
+    pivots: list[tuple[int, int]]
+
+
+def sparse_cokernel_certified(
+    rows: Sequence[Mapping[int, int]], *, n_columns: int, bound: int | None = None
+) -> tuple[Cokernel, CoreWitness | None]:
+    """:func:`sparse_cokernel_witness` with the pivot positions as well (a
+    :class:`CoreWitness`), for :func:`graphinv.normalform.determinant.confirm_determinant`.
+
+    Examples
+    --------
+    >>> n = 40  # the cycle C_40 with its last vertex deleted: Z/40
+    >>> A = [{j: v for j, v in {i: 2, i + 1: -1, i - 1: -1}.items() if 0 <= j < n - 1}
+    ...      for i in range(n - 1)]
+    >>> group, witness = sparse_cokernel_certified(A, n_columns=n - 1)
+    >>> group.invariant_factors, witness is None  # a core this small is finished directly
+    ((40,), True)
+
+    References
+    ----------
+    Abbott, Bronstein, Mulders, ISSAC 1999; Dumas, Saunders, Villard, J. Symbolic Comput. 32
+    (2001).
+    """
+    from graphinv.normalform._modular import hadamard_bound
+    from graphinv.normalform._sparse import extend_solution
+
+    checked = as_sparse_int_rows(rows, n_columns)
+    hadamard = hadamard_bound([row for row in checked if row])
+    bound = hadamard if bound is None else min(bound, hadamard)
+    reduction = eliminate_unit_pivots(checked, n_columns, keep_pivots=True, dense_stop=True)
+    core, solution = _core(reduction, bound)
+    witness = None
+    if solution is not None:  # the core was square and nonsingular
+        orders, numerators = solution
+        vectors = [extend_solution(reduction, w, n_columns) for w in numerators]
+        witness = CoreWitness(orders, vectors, list(reduction.pivot_positions))
+    rank = reduction.pivots + len(core)
+    return Cokernel(tuple(d for d in core if d > 1), n_columns - rank), witness
+
+
 def sparse_cokernel_witness(
     rows: Sequence[Mapping[int, int]], *, n_columns: int, bound: int | None = None
 ) -> tuple[Cokernel, tuple[list[int], list[list[int]]] | None]:
@@ -190,20 +246,8 @@ def sparse_cokernel_witness(
     Abbott, Bronstein, Mulders, ISSAC 1999; Dumas, Saunders, Villard, J. Symbolic Comput. 32
     (2001).
     """
-    from graphinv.normalform._modular import hadamard_bound
-    from graphinv.normalform._sparse import extend_solution
-
-    checked = as_sparse_int_rows(rows, n_columns)
-    hadamard = hadamard_bound([row for row in checked if row])
-    bound = hadamard if bound is None else min(bound, hadamard)
-    reduction = eliminate_unit_pivots(checked, n_columns, keep_pivots=True, dense_stop=True)
-    core, solution = _core(reduction, bound)
-    witness = None
-    if solution is not None:  # the core was square and nonsingular
-        orders, numerators = solution
-        witness = (orders, [extend_solution(reduction, w, n_columns) for w in numerators])
-    rank = reduction.pivots + len(core)
-    return Cokernel(tuple(d for d in core if d > 1), n_columns - rank), witness
+    group, found = sparse_cokernel_certified(rows, n_columns=n_columns, bound=bound)
+    return group, None if found is None else (found.orders, found.vectors)
 
 
 def sparse_cokernel(rows: Sequence[Mapping[int, int]], *, n_columns: int) -> Cokernel:

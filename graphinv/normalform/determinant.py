@@ -216,7 +216,12 @@ def subgroup_order(
 
 
 def confirm_determinant(
-    rows: Sequence[Mapping[int, int]], claimed: int, *, bound: int, divisor: int = 1
+    rows: Sequence[Mapping[int, int]],
+    claimed: int,
+    *,
+    bound: int,
+    divisor: int = 1,
+    pivots: Sequence[tuple[int, int]] | None = None,
 ) -> bool:
     """Whether ``det A == claimed``, decided exactly with few primes when a divisor is known.
 
@@ -236,6 +241,11 @@ def confirm_determinant(
         ``>= |det A|``.
     divisor : int
         A proven divisor of ``det A``.
+    pivots : sequence of (int, int), optional
+        Positions ``(row, column)`` of ``+-1`` pivots in elimination order (as recorded by the
+        unit-pivot elimination).  The residues then come from replaying them on ``A``'s own
+        entries (:mod:`graphinv.normalform._pivot_replay`); only the order is taken from the
+        elimination, and a replay that does not go through falls back to the level sweep.
 
     Returns
     -------
@@ -257,5 +267,25 @@ def confirm_determinant(
     if divisor < 1 or claimed % divisor:
         return False
     limit = (bound + abs(claimed)) // divisor + 1
-    residues = determinant_residues([dict(row) for row in rows], limit, avoid=divisor)
+    residues = None
+    if pivots is not None:
+        residues = _replayed_residues(rows, list(pivots), limit, divisor)
+    if residues is None:
+        residues = determinant_residues([dict(row) for row in rows], limit, avoid=divisor)
     return all((claimed - r) % p == 0 for p, r in residues.items())
+
+
+def _replayed_residues(
+    rows: Sequence[Mapping[int, int]], pivots: list[tuple[int, int]], limit: int, avoid: int
+) -> dict[int, int] | None:
+    """``{p: det A mod p}`` over primes below ``2^22`` not dividing ``avoid`` whose product
+    exceeds ``limit``, by replaying ``pivots``; ``None`` if the replay does not apply."""
+    from graphinv.normalform._level_determinant import float_primes
+    from graphinv.normalform._pivot_replay import replay_determinant
+
+    count = limit.bit_length() // 21 + 1  # every prime is above 2^21
+    primes = [q for q in float_primes(count + 16) if avoid % q][:count]
+    if len(primes) < count:
+        return None
+    found = replay_determinant(rows, pivots, primes)
+    return None if found is None else dict(zip(primes, found, strict=True))

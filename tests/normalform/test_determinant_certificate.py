@@ -221,3 +221,32 @@ def test_pair_subgroup_order_counts_the_subgroup():
             for b in range(orders[1])
         }
         assert pair_subgroup_order(vectors, orders) == len(elements)
+
+
+def test_confirm_along_replayed_pivots_against_flint(monkeypatch):
+    # The certificate replays the exact elimination's pivot order on L's own entries.
+    # Reference: python-flint's exact determinant of the reduced Laplacian.
+    import graphinv.normalform._pivot_replay as replay
+    from graphinv.normalform.cokernel import sparse_cokernel_certified
+
+    rows = reduced_laplacian(nx.random_regular_graph(4, 200, seed=11))
+    _, witness = sparse_cokernel_certified([dict(r) for r in rows], n_columns=len(rows))
+    assert witness is not None and witness.pivots
+    det = flint_det(rows)
+    bound = product_bound(rows)
+    s = subgroup_order(rows, witness.orders, witness.vectors)
+    answers: list[object] = []
+    original = replay.replay_determinant
+
+    def spy(*args):
+        answers.append(original(*args))
+        return answers[-1]
+
+    monkeypatch.setattr(replay, "replay_determinant", spy)
+    assert confirm_determinant(rows, det, bound=bound, divisor=s, pivots=witness.pivots)
+    assert answers and answers[-1] is not None  # the replay itself decided
+    assert not confirm_determinant(rows, det + s, bound=bound, divisor=s, pivots=witness.pivots)
+    assert not confirm_determinant(rows, -det, bound=bound, divisor=s, pivots=witness.pivots)
+    # An order that does not replay (L[0][0] is no unit) falls back to the level sweep.
+    assert confirm_determinant(rows, det, bound=bound, divisor=s, pivots=[(0, 0)])
+    assert answers[-1] is None

@@ -72,6 +72,10 @@ def check_pivot_rows(reduction: UnitReduction, n_columns: int) -> None:
     assert reduction.kept_columns == sorted(reduction.kept_columns)
     assert len(reduction.kept_columns) == reduction.n_columns
     assert sorted(earlier | set(reduction.kept_columns)) == list(range(n_columns))
+    # The recorded positions name the same pivot columns, each input row at most once.
+    positions = reduction.pivot_positions
+    assert [c for _, c in positions] == [c for c, _ in reduction.pivot_rows]
+    assert len({r for r, _ in positions}) == len(positions)
 
 
 def random_sparse(rng: random.Random, m: int, n: int) -> Rows:
@@ -142,7 +146,11 @@ def test_reduced_laplacians_keep_flint_smith_form(name: str, compiled: bool) -> 
             if dense_stop and reduction.dense is not None:
                 # An early stop keeps the probe's dense remainder for the modular finish.
                 assert reduction.dense == dense_rows(reduction.rows, reduction.n_columns)
-                assert reduction.matrix == flint.fmpz_mat(reduction.dense)
+                # The Python loop's probe built an fmpz_mat; the kernel keeps its int64 array.
+                if reduction.array is None:
+                    assert reduction.matrix == flint.fmpz_mat(reduction.dense)
+                else:
+                    assert reduction.array.tolist() == reduction.dense
             else:
                 assert reduction.dense is None and reduction.matrix is None
             assert reduction_invariants(reduction) == expected
@@ -263,7 +271,16 @@ def same_reduction(rows: Rows, n_columns: int, monkeypatch: pytest.MonkeyPatch, 
         monkeypatch.setattr(sparse, "COMPILED", mode)
         r = eliminate_unit_pivots([dict(row) for row in rows], n_columns, **options)
         found.append(
-            (r.pivots, r.rows, r.n_columns, r.n_rows, r.pivot_rows, r.kept_columns, r.dense)
+            (
+                r.pivots,
+                r.rows,
+                r.n_columns,
+                r.n_rows,
+                r.pivot_rows,
+                r.kept_columns,
+                r.dense,
+                r.pivot_positions,
+            )
         )
     assert found[0] == found[1]
 
