@@ -33,6 +33,9 @@ __all__ = ["REPLAY_LIMIT", "replay_determinant"]
 REPLAY_LIMIT = 2500
 """Largest order replayed (a dense ``int64`` copy: 50 MB at this size)."""
 
+BATCH_ENTRIES = 1 << 22
+"""Residues of the rest held at once (32 MB of float64); more primes go in batches."""
+
 _KERNELS: list[Any] = []
 
 
@@ -95,10 +98,14 @@ def replay_determinant(
     sign *= _parity(np.concatenate((prow, rest_rows))) * _parity(np.concatenate((pcol, rest_cols)))
     if len(rest_rows) == 0:
         return [sign % q for q in moduli]
-    p = np.array(moduli, dtype=np.float64)
-    residues = float_residues(A[np.ix_(rest_rows, rest_cols)], p)
-    det = _Arithmetic(p, False).determinant(residues)
-    return [int(d) * sign % q for d, q in zip(det.tolist(), moduli, strict=True)]
+    rest = A[np.ix_(rest_rows, rest_cols)]
+    batch = max(1, BATCH_ENTRIES // rest.size)  # primes per batch: W k^2 floats at a time
+    found: list[int] = []
+    for start in range(0, len(moduli), batch):
+        p = np.array(moduli[start : start + batch], dtype=np.float64)
+        det = _Arithmetic(p, False).determinant(float_residues(rest, p))
+        found.extend(int(d) for d in det.tolist())
+    return [d * sign % q for d, q in zip(found, moduli, strict=True)]
 
 
 def _parity(order: Any) -> int:

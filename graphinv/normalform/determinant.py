@@ -243,8 +243,9 @@ def confirm_determinant(
         A proven divisor of ``det A``.
     pivots : sequence of (int, int), optional
         Positions ``(row, column)`` of ``+-1`` pivots in elimination order (as recorded by the
-        unit-pivot elimination).  The residues then come from replaying them on ``A``'s own
-        entries (:mod:`graphinv.normalform._pivot_replay`); only the order is taken from the
+        unit-pivot elimination).  When at most ``REPLAY_BITS`` bits of primes are needed, the
+        residues then come from replaying them on ``A``'s own entries
+        (:mod:`graphinv.normalform._pivot_replay`); only the order is taken from the
         elimination, and a replay that does not go through falls back to the level sweep.
 
     Returns
@@ -268,11 +269,18 @@ def confirm_determinant(
         return False
     limit = (bound + abs(claimed)) // divisor + 1
     residues = None
-    if pivots is not None:
+    if pivots is not None and limit.bit_length() <= REPLAY_BITS:
         residues = _replayed_residues(rows, list(pivots), limit, divisor)
     if residues is None:
         residues = determinant_residues([dict(row) for row in rows], limit, avoid=divisor)
     return all((claimed - r) % p == 0 for p, r in residues.items())
+
+
+REPLAY_BITS = 500
+"""Up to this many bits of primes (about 24 primes below ``2^22``) the replay's dense rest is
+quicker; beyond, the level sweep's cost per prime is lower (it works on the sparse matrix):
+measured 4.4 s against 1.0 s for 3,360 bits on the hypercube Q10, 44 against 99 ms for 255 bits
+on a random 4-regular graph of 1,000 vertices."""
 
 
 def _replayed_residues(

@@ -121,3 +121,14 @@ def test_float_residues_match_python_remainders(scale):
     values = [[rng.randrange(-scale, scale) for _ in range(7)] for _ in range(5)]
     got = float_residues(np.array(values, dtype=np.float64), PRIMES)
     assert got.tolist() == [[[float(v % p) for v in row] for row in values] for p in PRIMES]
+
+
+def test_primes_in_batches_give_the_same_residues(monkeypatch):
+    # Reference: python-flint's exact determinant; one prime per batch changes nothing.
+    G = nx.random_regular_graph(4, 90, seed=8)
+    L = laplacian_matrix(G).to_rows()
+    n = len(L) - 1
+    rows = [{j: v for j, v in row.items() if j < n} for row in L[:n]]
+    order = unit_order(rows, n, 50)
+    monkeypatch.setattr(_pivot_replay, "BATCH_ENTRIES", 1)
+    assert replay_determinant(rows, order, PRIMES) == flint_residues(rows, n)
