@@ -46,6 +46,7 @@ from operator import mul
 from typing import Any
 
 from graphinv.errors import GraphInvError
+from graphinv.normalform._local_smith import local_valuations
 
 __all__ = [
     "crt_determinant",
@@ -360,47 +361,6 @@ def _local_schur_word(
     return [[int(x) for x in line] for line in S.tolist()]
 
 
-def _local_valuations_word(rows: list[list[int]], p: int, precision: int) -> list[int]:
-    """Local Smith form over ``Z / p^precision`` with ``p^precision < 2^31``, vectorized.
-
-    Each step takes an entry of least valuation as pivot (it divides every other entry in
-    the local ring), clears its column by row operations, and drops its row and column (the
-    column operations that would clear the row touch nothing else).  Returns the valuation of
-    every invariant factor, ``precision`` for those that vanish modulo ``p^precision``.
-    """
-    import numpy as np
-
-    modulus = p**precision
-    A = np.array([[x % modulus for x in row] for row in rows], dtype=np.int64)
-    k = A.shape[0]
-    found: list[int] = []
-    level = 0
-    power = 1
-    for step in range(k):
-        sub = A[step:, step:]
-        while level < precision:
-            mask = sub % (power * p) != 0
-            if mask.any():
-                break
-            level += 1
-            power *= p
-        if level >= precision:
-            return found + [precision] * (k - step)
-        flat = int(np.argmax(mask))
-        i, j = divmod(flat, mask.shape[1])
-        if i:
-            A[[step, step + i]] = A[[step + i, step]]
-        if j:
-            A[:, [step, step + j]] = A[:, [step + j, step]]
-        unit_inverse = pow(int(A[step, step]) // power, -1, modulus)
-        factors = (A[step + 1 :, step] // power) * unit_inverse % modulus
-        A[step + 1 :, step:] = (
-            A[step + 1 :, step:] - factors[:, None] * A[step, step:][None, :] % modulus
-        ) % modulus
-        found.append(level)
-    return found
-
-
 def _local_valuations(S: Any, p: int, precision: int) -> list[int]:
     """Valuations at ``p`` of the invariant factors of the ``fmpz_mat`` ``S``, known modulo
     ``p^precision`` (a factor that vanishes modulo ``p^precision`` counts as ``precision``).
@@ -571,7 +531,7 @@ def modular_core(
         while True:
             reduced = _local_schur_word(rows, C, p, t, precision) if t < k // 4 else rows
             local = sorted(
-                (v for v in _local_valuations_word(reduced, p, precision) if v), reverse=True
+                (v for v in local_valuations(reduced, p, precision) if v), reverse=True
             )
             saturated = sum(1 for v in local if v >= precision)
             if (len(local) == t and saturated <= 1) or precision >= cap:
