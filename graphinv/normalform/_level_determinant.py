@@ -82,9 +82,11 @@ _PRIMES: list[int] = []
 def float_residues(A: Any, primes: Any) -> Any:
     """``A mod p`` for each prime, shape ``(W,) + A.shape``, float64 in ``[0, p)``.
 
-    ``A`` holds integers below ``2^53`` in absolute value (float64 or int64).  This is
-    ``A - p floor(A / p)`` with one correction either way: several times quicker than
-    ``numpy.mod`` on floats, and exact.
+    ``A`` holds integers below ``2^53`` in absolute value (float64 or int64).  The residue is
+    ``A - p floor(A / p)``, exact with no correction: for ``A = n p + f``, ``0 < f < p``, the
+    rounding error of ``A / p`` is below ``|A / p| 2^-53 < 1 / p``, the distance from
+    ``A / p`` to the nearest integer, so the floor is ``n``; for ``f = 0`` the quotient is exact.
+    Several times quicker than ``numpy.mod`` on floats.
 
     Examples
     --------
@@ -98,9 +100,10 @@ def float_residues(A: Any, primes: Any) -> Any:
     p = np.asarray(primes, dtype=np.float64).reshape((-1,) + (1,) * (X.ndim - 1))
     if X.size and np.abs(X).max() < p.min():
         return np.where(X < 0, X + p, X)  # small entries (the usual case): one correction
-    rest = X - p * np.floor(X / p)
-    rest = np.where(rest < 0, rest + p, rest)
-    return np.where(rest >= p, rest - p, rest)
+    quotient = X / p
+    np.floor(quotient, out=quotient)
+    quotient *= p
+    return np.subtract(X, quotient, out=quotient)
 
 
 def float_primes(count: int) -> list[int]:

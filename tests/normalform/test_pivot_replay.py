@@ -132,3 +132,20 @@ def test_primes_in_batches_give_the_same_residues(monkeypatch):
     order = unit_order(rows, n, 50)
     monkeypatch.setattr(_pivot_replay, "BATCH_ENTRIES", 1)
     assert replay_determinant(rows, order, PRIMES) == flint_residues(rows, n)
+
+
+def test_float_residues_exact_next_to_multiples_up_to_2_53():
+    # The floor of A / p is exact below 2^53 (the rounding error is under 1/p); the values
+    # next to multiples of p are where an inexact floor would show.  Reference: Python's %.
+    import numpy as np
+
+    from graphinv.normalform._level_determinant import float_residues
+
+    p = PRIMES[0]
+    values = []
+    for n in (1, 12345, (1 << 52) // p - 1, (1 << 53) // p - 1):
+        for f in (-1, 0, 1, p - 1):
+            values.extend([n * p + f, -(n * p + f)])
+    values = [v for v in values if abs(v) < 1 << 53]
+    got = float_residues(np.array([values], dtype=np.float64), [p])
+    assert got.tolist() == [[[float(v % p) for v in values]]]
