@@ -458,8 +458,8 @@ def modular_core(
 
         from graphinv.normalform._dixon import solve_lifting
 
-        if array is None:
-            array = np.array(rows, dtype=np.float64)  # shared by the lifting and the residues
+        # One float64 copy, shared by the lifting and the residues (an int64 core is cast once).
+        array = np.array(rows, dtype=np.float64) if array is None else array.astype(np.float64)
         solved = solve_lifting(rows, B, det_bound=bound, array=array)  # exact, or None
     if solved is None:
         if C is None:
