@@ -691,6 +691,8 @@ def process_chunk(
         graph: Any
         try:
             if kind == "lines":
+                if isinstance(payload, str):  # a line the reader could not expand
+                    raise GraphInvError(payload)
                 n, graph = _parse_line(content, input_format)
             elif kind == "files":
                 n, graph = _graph_from_file(payload, input_format)

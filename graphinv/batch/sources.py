@@ -112,16 +112,45 @@ class BatchInput:
 
 
 def _data_lines(stream: IO[str]) -> Iterator[TaskItem]:
+    """The graph lines as task items; an incremental sparse6 line (``;``) is expanded here, in
+    order, into the full sparse6 line of its graph (workers parse lines independently), or
+    carries the reason it cannot be (then the worker reports it as that line's error)."""
     position = 0
+    before: str | None = None  # the previous graph line (full form), parsed only when needed
+    graph: tuple[int, list[tuple[int, int]]] | None = None  # its graph, once parsed
     for number, raw in enumerate(stream, start=1):
         text = raw.strip()
         if text[:2] == ">>":
             for header in _HEADERS:
                 if text.startswith(header):
                     text = text[len(header) :]
-        if text and text[0] != "#":
-            yield (position, number, text, None)
-            position += 1
+        if not text or text[0] == "#":
+            continue
+        payload = None
+        if text[0] == ";":
+            text, graph, payload = _expanded(text, before, graph)
+        else:
+            graph = None
+        before = text if payload is None else None
+        yield (position, number, text, payload)
+        position += 1
+
+
+def _expanded(
+    text: str, before: str | None, graph: tuple[int, list[tuple[int, int]]] | None
+) -> tuple[str, tuple[int, list[tuple[int, int]]] | None, str | None]:
+    """``(full sparse6 line, its graph, None)`` for an incremental line, or ``(text, None,
+    reason)`` when the graph before it is missing or unreadable."""
+    from graphinv.errors import GraphFormatError
+    from graphinv.io.graph6 import encode_sparse6, parse_graph6, parse_sparse6
+
+    try:
+        if graph is None and before is not None:
+            graph = parse_sparse6(before) if before[0] == ":" else parse_graph6(before)
+        n, edges = parse_sparse6(text, previous=graph)
+    except GraphFormatError as exc:
+        return text, None, exc.message
+    return encode_sparse6(n, edges), (n, edges), None
 
 
 def _file_payload(path: str) -> tuple[str | None, str, str] | str:

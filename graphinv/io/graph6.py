@@ -3,7 +3,8 @@
 Both formats store an undirected graph on the vertices ``0 .. n-1`` as printable ASCII
 (bytes 63..126, each carrying six bits).  graph6 packs the upper triangle of the adjacency
 matrix column by column and suits dense graphs; sparse6 (lines starting with ``:``) lists the
-edges and suits sparse graphs, and may hold loops and parallel edges.  A file may start with the
+edges and suits sparse graphs, and may hold loops and parallel edges; incremental sparse6 (lines
+starting with ``;``) lists only the edges toggled from the graph of the line before.  A file may start with the
 header ``>>graph6<<`` or ``>>sparse6<<`` and then holds one graph per line.
 
 The integer layer (:func:`parse_graph6`, :func:`parse_sparse6`, :func:`encode_graph6`,
@@ -249,50 +250,65 @@ def _sparse6_width(n: int) -> int:
     return max(1, (n - 1).bit_length())
 
 
-def parse_sparse6(text: str | bytes) -> tuple[int, list[tuple[int, int]]]:
+def parse_sparse6(
+    text: str | bytes, *, previous: tuple[int, Sequence[tuple[int, int]]] | None = None
+) -> tuple[int, list[tuple[int, int]]]:
     """Decode one sparse6 string into ``(n, edges)``.
 
     Parallel edges come out repeated and loops as ``(v, v)``; callers decide what to do with
     them (graphinv's loaders add parallel edges up into a multiplicity and drop loops).
 
+    A line starting with ``;`` is *incremental* sparse6: it has no vertex count and lists the
+    edges in which the graph differs from the graph before it (their symmetric difference), so
+    it needs that graph as ``previous``.  The file readers and the batch engine pass it on.
+
     Parameters
     ----------
     text : str or bytes
-        One sparse6 encoding starting with ``:``; a leading ``>>sparse6<<`` header and
-        surrounding whitespace are allowed.
+        One sparse6 encoding starting with ``:`` (or ``;`` with ``previous``); a leading
+        ``>>sparse6<<`` header and surrounding whitespace are allowed.
+    previous : (int, sequence of (int, int)), optional
+        The graph of the line before, as ``(n, edges)``: required for ``;`` lines, where it
+        must have no parallel edges (a symmetric difference of multigraphs is undefined).
 
     Returns
     -------
     n : int
     edges : list of (int, int)
-        Each edge as ``(u, v)`` with ``u <= v``, in the order of the encoding.
+        Each edge as ``(u, v)`` with ``u <= v``, in the order of the encoding (for ``;`` lines,
+        by the larger end, then the smaller).
 
     Raises
     ------
     GraphFormatError
-        If the text does not start with ``:`` or holds characters outside ``'?'..'~'``.
+        If the text does not start with ``:`` or ``;``, holds characters outside ``'?'..'~'``,
+        or is incremental without a suitable previous graph.
 
     Examples
     --------
     >>> parse_sparse6(":Fa@x^")
     (7, [(0, 1), (0, 2), (1, 2), (5, 6)])
+    >>> parse_sparse6(";a@x^", previous=(7, [(0, 1), (3, 4)]))  # toggles 0-1 0-2 1-2 5-6
+    (7, [(0, 2), (1, 2), (3, 4), (5, 6)])
 
     References
     ----------
-    B. D. McKay, formats.txt (sparse6).
+    B. D. McKay, formats.txt (sparse6, incremental sparse6).
     """
     data = _clean(text, SPARSE6_HEADER)
     if data.startswith(b";"):
-        raise GraphFormatError(
-            "incremental sparse6 (a line starting with ';') is not supported; "
-            "expected a full sparse6 line starting with ':'"
-        )
+        return _parse_increment(data[1:], previous)
     if not data.startswith(b":"):
         raise GraphFormatError("malformed sparse6: expected the text to start with ':'")
     data = data[1:]
     _check_printable(data, "sparse6")
     n, used = _decode_size(data, "sparse6")
-    bits = _bits_of(data[used:])
+    return n, _sparse6_pairs(data[used:], n)
+
+
+def _sparse6_pairs(body: bytes, n: int) -> list[tuple[int, int]]:
+    """The edges of a sparse6 bit stream on ``n`` vertices (formats.txt's b/x pairs)."""
+    bits = _bits_of(body)
     k = _sparse6_width(n)
     edges: list[tuple[int, int]] = []
     v = 0
@@ -309,7 +325,31 @@ def parse_sparse6(text: str | bytes) -> tuple[int, list[tuple[int, int]]]:
             v = x
         else:
             edges.append((x, v))
-    return n, edges
+    return edges
+
+
+def _parse_increment(
+    body: bytes, previous: tuple[int, Sequence[tuple[int, int]]] | None
+) -> tuple[int, list[tuple[int, int]]]:
+    if previous is None:
+        raise GraphFormatError(
+            "incremental sparse6 (a line starting with ';') needs the graph of the line "
+            "before it; it cannot come first or after a line that could not be read"
+        )
+    n, before = previous
+    present: set[tuple[int, int]] = set()
+    for u, v in before:
+        pair = (u, v) if u <= v else (v, u)
+        if pair in present:
+            raise GraphFormatError(
+                "incremental sparse6 (';') cannot follow a graph with parallel edges "
+                f"(edge {pair[0]}-{pair[1]} is repeated there)"
+            )
+        present.add(pair)
+    _check_printable(body, "sparse6")
+    for pair in _sparse6_pairs(body, n):
+        present ^= {pair}
+    return n, sorted(present, key=lambda e: (e[1], e[0]))
 
 
 def _check_edges(n: int, edges: Iterable[tuple[int, int]]) -> list[tuple[int, int]]:

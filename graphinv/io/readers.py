@@ -360,12 +360,20 @@ def _coded_items(lines: Iterable[str], label: str, stem: str) -> Iterator[_Item]
     second = next(entries, None)
     single = second is None
     head = [first] if second is None else [first, second]
+    # The graph of the line before, for incremental sparse6 lines (';'), which list only the
+    # edges toggled from it; None after a line that could not be read.
+    previous: tuple[int, list[tuple[int, int]]] | None = None
     for index, (number, text) in enumerate(itertools.chain(head, entries)):
         name = stem if single else f"{stem}#{index}"
         try:
             coded_sparse = text[0] in ":;"
-            n, edges = parse_sparse6(text) if coded_sparse else parse_graph6(text)
+            if coded_sparse:
+                n, edges = parse_sparse6(text, previous=previous)
+            else:
+                n, edges = parse_graph6(text)
+            previous = (n, edges)
         except GraphFormatError as exc:
+            previous = None
             error = GraphFormatError(exc.message, source=label, line=number, graph_index=index)
             yield _Item(index, number, name, None, error)
             continue

@@ -103,3 +103,35 @@ def test_distinct_standard_input_streams_need_labels(tmp_path, monkeypatch, stor
     monkeypatch.setattr(sys, "stdin", io.StringIO("C~\n"))
     run_batch(["-"], store=store, workers=1, label="k4")
     assert [row["source"] for row in stored_rows(store)] == ["stdin:default", "stdin:k4"]
+
+
+def test_incremental_sparse6_lines_are_expanded_in_order(tmp_path, monkeypatch, stored_rows):
+    # formats.txt (B. D. McKay): a ';' line lists the edges toggled from the graph of the line
+    # before.  K_4 ("C~" in graph6), then toggling edge 2-3 gives the diamond K_4 - e, and
+    # toggling it again K_4 back.  K(K_4) = Z4^2 with 16 spanning trees (Lorenzini 1991,
+    # memory); the diamond's group is checked against python-flint's Smith form of its
+    # Laplacian.  A ';' line with no graph before it is an error row; the batch goes on.
+    import flint
+    import networkx as nx
+
+    from graphinv.io.graph6 import encode_sparse6, parse_sparse6
+
+    toggle = ";" + encode_sparse6(4, [(2, 3)])[2:]  # the bit stream without ':' and N(4)
+    stream = "\n".join([toggle, "C~", toggle, toggle]) + "\n"
+    monkeypatch.setattr(sys, "stdin", io.StringIO(stream))
+    store = tmp_path / "steps.db"
+    result = run_batch(["-"], store=store, workers=1, progress=False)
+    assert (result.computed, result.failed) == (4, 1)
+    by_line = {row["line"]: row for row in stored_rows(store)}
+    assert "needs the graph of the line before it" in by_line[1]["error"]
+    diamond = nx.complete_graph(4)
+    diamond.remove_edge(2, 3)
+    L = nx.laplacian_matrix(diamond, nodelist=range(4)).toarray().tolist()
+    S = flint.fmpz_mat(L).snf()
+    expected = ",".join(str(int(S[i, i])) for i in range(4) if int(S[i, i]) > 1)
+    assert (by_line[2]["critical_group"], by_line[2]["spanning_trees"]) == ("4,4", "16")
+    assert (by_line[3]["critical_group"], by_line[3]["spanning_trees"]) == (expected, "8")
+    assert (by_line[4]["critical_group"], by_line[4]["spanning_trees"]) == ("4,4", "16")
+    # The stored key of an incremental line is the full sparse6 line of its graph.
+    n, edges = parse_sparse6(by_line[3]["content"])
+    assert (n, sorted(edges)) == (4, sorted(diamond.edges))

@@ -141,8 +141,24 @@ def test_malformed_graph6(text, fragment):
 def test_malformed_sparse6():
     with pytest.raises(GraphFormatError, match="start with ':'"):
         parse_sparse6("Bw")
-    with pytest.raises(GraphFormatError, match="incremental"):
+    with pytest.raises(GraphFormatError, match=r"incremental.*needs the graph of the line"):
         parse_sparse6(";Bd")
+
+
+def test_incremental_sparse6_toggles_the_edges_of_the_previous_graph():
+    # formats.txt (B. D. McKay): a ';' line holds the sparse6 bit stream, without a vertex
+    # count, of the symmetric difference with the previous graph.  Its worked example ":Fa@x^"
+    # is the graph on 7 vertices with edges 0-1 0-2 1-2 5-6; ":F" is the empty graph on 7.
+    edges = [(0, 1), (0, 2), (1, 2), (5, 6)]
+    assert parse_sparse6(";a@x^", previous=parse_sparse6(":F")) == (7, edges)
+    assert parse_sparse6(";a@x^", previous=(7, edges)) == (7, [])
+    assert parse_sparse6(";a@x^", previous=(7, [(2, 1), (3, 4)])) == (
+        7,
+        [(0, 1), (0, 2), (3, 4), (5, 6)],
+    )
+    # A symmetric difference with a multigraph is undefined.
+    with pytest.raises(GraphFormatError, match="parallel edges"):
+        parse_sparse6(";a@x^", previous=(7, [(3, 4), (4, 3)]))
 
 
 def test_graph6_refuses_what_it_cannot_store():

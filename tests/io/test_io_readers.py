@@ -145,6 +145,25 @@ def test_graph6_file_names_lines_and_header(tmp_path):
     assert nx.is_isomorphic(graphs[0], nx.petersen_graph())
 
 
+def test_incremental_sparse6_lines_build_on_the_line_before(tmp_path):
+    # formats.txt's worked example ":Fa@x^" (edges 0-1 0-2 1-2 5-6 on 7 vertices); each ';'
+    # line toggles those edges in the graph before it, a graph6 line included.
+    text = ":Fa@x^\n;a@x^\n;a@x^\nF????\n;a@x^\n"
+    graphs = list(read_graphs(write(tmp_path, "steps.s6", text)))
+    sizes = [G.number_of_edges() for G in graphs]
+    assert sizes == [4, 0, 4, 0, 4]
+    assert sorted(graphs[2].edges) == [(0, 1), (0, 2), (1, 2), (5, 6)]
+    assert [G.graph["line"] for G in graphs] == [1, 2, 3, 4, 5]
+
+
+def test_incremental_sparse6_without_a_graph_before_is_an_error(tmp_path):
+    path = write(tmp_path, "lonely.s6", ";a@x^\n:Fa@x^\n")
+    graphs = read_graphs(path)
+    with pytest.raises(GraphFormatError) as caught:
+        next(graphs)
+    assert "line 1" in str(caught.value) and "needs the graph of the line" in str(caught.value)
+
+
 def test_single_graph6_is_named_by_stem(tmp_path):
     path = write(tmp_path, "pete.g6", to_graph6(nx.petersen_graph()) + "\n")
     assert read_graph(path).graph["name"] == "pete"
