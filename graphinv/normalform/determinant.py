@@ -283,6 +283,12 @@ measured 4.4 s against 1.0 s for 3,360 bits on the hypercube Q10, 44 against 99 
 on a random 4-regular graph of 1,000 vertices."""
 
 
+REPLAY_WORK = 1 << 34
+"""Most ``primes * rest^3`` (the dense LU's work, about a second in float64 BLAS here) the
+replay takes on; a matrix with few unit pivots (a multigraph whose edges are all doubled has
+none) leaves a dense rest that the level sweep of the sparse matrix handles far quicker."""
+
+
 def _replayed_residues(
     rows: Sequence[Mapping[int, int]], pivots: list[tuple[int, int]], limit: int, avoid: int
 ) -> dict[int, int] | None:
@@ -292,6 +298,9 @@ def _replayed_residues(
     from graphinv.normalform._pivot_replay import replay_determinant
 
     count = limit.bit_length() // 21 + 1  # every prime is above 2^21
+    rest = len(rows) - len(pivots)
+    if count * rest**3 > REPLAY_WORK:
+        return None  # few pivots: a large dense rest, cheaper to sweep the sparse matrix
     primes = [q for q in float_primes(count + 16) if avoid % q][:count]
     if len(primes) < count:
         return None

@@ -250,3 +250,22 @@ def test_confirm_along_replayed_pivots_against_flint(monkeypatch):
     # An order that does not replay (L[0][0] is no unit) falls back to the level sweep.
     assert confirm_determinant(rows, det, bound=bound, divisor=s, pivots=[(0, 0)])
     assert answers[-1] is None
+
+
+def test_no_replay_of_a_large_dense_rest(monkeypatch):
+    # With no unit pivots (every edge doubled) the rest is the whole matrix: the level sweep
+    # decides instead.  Reference: Kirchhoff with doubled edges multiplies the count by
+    # 2^(n-1); the cycle C_n has n spanning trees (common fact).
+    import importlib
+
+    import graphinv.normalform._pivot_replay as replay
+
+    determinant = importlib.import_module("graphinv.normalform.determinant")
+    n = 40
+    rows = [{j: 2 * v for j, v in row.items()} for row in reduced_laplacian(nx.cycle_graph(n))]
+    calls: list[int] = []
+    monkeypatch.setattr(replay, "replay_determinant", lambda *a: calls.append(1))
+    monkeypatch.setattr(determinant, "REPLAY_WORK", 10)
+    trees = n * 2 ** (n - 1)
+    assert confirm_determinant(rows, trees, bound=4 ** (n - 1) * 2, divisor=1, pivots=[])
+    assert not calls
