@@ -76,7 +76,7 @@ def local_valuations(rows: Any, p: int, precision: int) -> list[int]:
 
 def _kernels() -> Any:
     """The compiled kernels (numba, cached on disk after the first compilation)."""
-    global np
+    global np, _pivot_step
     if not _KERNELS:
         from types import SimpleNamespace
 
@@ -84,6 +84,7 @@ def _kernels() -> Any:
         import numpy as np
 
         jit = numba.njit(cache=True)
+        _pivot_step = jit(_pivot_step)  # shared by both kernels, bound compiled to its name
         _KERNELS.append(
             SimpleNamespace(
                 int_valuations=jit(_int_valuations), float_valuations=jit(_float_valuations)
@@ -92,47 +93,59 @@ def _kernels() -> Any:
     return _KERNELS[0]
 
 
-# Compiled by numba (see _kernels); written twice, once per arithmetic, because a compiled
-# kernel can call only compiled functions.
+# Compiled by numba (see _kernels).  The two kernels differ only in the row update: int64
+# remainders, or the exact float64 floor (``x - m floor(x / m)`` for ``|x| < 2^52``), which
+# vectorizes.
+
+
+def _pivot_step(A: Any, step: int, level: int, p: int, precision: int, modulus: int) -> Any:
+    """Move an entry of least valuation (at least ``level``) to ``(step, step)``; return
+    ``(its valuation, inverse of its unit part modulo p^precision)``, or ``(precision, 0)``
+    when the rest vanishes modulo ``p^precision``."""
+    k = A.shape[0]
+    power = p**level
+    pi = -1
+    pj = -1
+    while level < precision:
+        higher = power * p
+        for i in range(step, k):
+            for j in range(step, k):
+                if A[i, j] % higher != 0:  # exact for float64 integers too (fmod)
+                    pi = i
+                    pj = j
+                    break
+            if pi >= 0:
+                break
+        if pi >= 0:
+            break
+        level += 1
+        power = higher
+    if level >= precision:
+        return precision, 0
+    for j in range(k):
+        A[step, j], A[pi, j] = A[pi, j], A[step, j]
+    for i in range(k):
+        A[i, step], A[i, pj] = A[i, pj], A[i, step]
+    # Inverse of the unit A[step, step] / p^level modulo p^precision (extended Euclid).
+    r0, r1 = modulus, (int(A[step, step]) // power) % modulus
+    t0, t1 = 0, 1
+    while r1 != 0:
+        q = r0 // r1
+        r0, r1 = r1, r0 - q * r1
+        t0, t1 = t1, t0 - q * t1
+    return level, t0 % modulus
 
 
 def _int_valuations(A: Any, p: int, precision: int, modulus: int, out: Any) -> None:
     k = A.shape[0]
     level = 0
-    power = 1
     for step in range(k):
-        pi = -1
-        pj = -1
-        while level < precision:
-            higher = power * p
-            for i in range(step, k):
-                for j in range(step, k):
-                    if A[i, j] % higher != 0:
-                        pi = i
-                        pj = j
-                        break
-                if pi >= 0:
-                    break
-            if pi >= 0:
-                break
-            level += 1
-            power = higher
+        level, inverse = _pivot_step(A, step, level, p, precision, modulus)
         if level >= precision:
             for t in range(step, k):
                 out[t] = precision
             return
-        for j in range(k):
-            A[step, j], A[pi, j] = A[pi, j], A[step, j]
-        for i in range(k):
-            A[i, step], A[i, pj] = A[i, pj], A[i, step]
-        # Inverse of the unit A[step, step] / p^level modulo p^precision (extended Euclid).
-        r0, r1 = modulus, (A[step, step] // power) % modulus
-        t0, t1 = 0, 1
-        while r1 != 0:
-            q = r0 // r1
-            r0, r1 = r1, r0 - q * r1
-            t0, t1 = t1, t0 - q * t1
-        inverse = t0 % modulus
+        power = p**level
         for i in range(step + 1, k):
             a = A[i, step]
             if a == 0:
@@ -147,40 +160,13 @@ def _float_valuations(A: Any, p: int, precision: int, modulus: int, out: Any) ->
     k = A.shape[0]
     m = float(modulus)
     level = 0
-    power = 1
     for step in range(k):
-        pi = -1
-        pj = -1
-        while level < precision:
-            higher = float(power * p)
-            for i in range(step, k):
-                for j in range(step, k):
-                    x = A[i, j]
-                    if x - higher * np.floor(x / higher) != 0.0:
-                        pi = i
-                        pj = j
-                        break
-                if pi >= 0:
-                    break
-            if pi >= 0:
-                break
-            level += 1
-            power *= p
+        level, inverse = _pivot_step(A, step, level, p, precision, modulus)
         if level >= precision:
             for t in range(step, k):
                 out[t] = precision
             return
-        for j in range(k):
-            A[step, j], A[pi, j] = A[pi, j], A[step, j]
-        for i in range(k):
-            A[i, step], A[i, pj] = A[i, pj], A[i, step]
-        r0, r1 = modulus, (int(A[step, step]) // power) % modulus
-        t0, t1 = 0, 1
-        while r1 != 0:
-            q = r0 // r1
-            r0, r1 = r1, r0 - q * r1
-            t0, t1 = t1, t0 - q * t1
-        inverse = t0 % modulus
+        power = p**level
         for i in range(step + 1, k):
             a = int(A[i, step])
             if a == 0:
@@ -188,10 +174,5 @@ def _float_valuations(A: Any, p: int, precision: int, modulus: int, out: Any) ->
             f = float(((a // power) * inverse) % modulus)
             for j in range(step, k):
                 x = A[i, j] - f * A[step, j]  # exact: |x| < 2^52
-                x -= m * np.floor(x / m)
-                if x < 0.0:
-                    x += m
-                elif x >= m:
-                    x -= m
-                A[i, j] = x
+                A[i, j] = x - m * np.floor(x / m)  # exact floor (see float_residues)
         out[step] = level
