@@ -22,9 +22,12 @@ How it is computed
    (:func:`graphinv.normalform.sparse_determinant`).  Large blocks (Abbott, Bronstein, Mulders
    1999): the modular finish leaves a rational solution of ``L x = b``; checking ``L (s x) =
    s b`` exactly proves that its denominator ``s`` divides ``det L`` (Cramer's rule), and
-   ``det L`` is then compared with the product modulo primes, by the same multi-modular
-   elimination, until ``s`` times their product exceeds the Hadamard bound: equality is proven,
-   with ``log(bound / s)`` instead of ``log(bound)`` bits of primes.
+   ``det L`` is then compared with the product modulo primes until ``s`` times their product
+   exceeds the Hadamard bound: equality is proven, with ``log(bound / s)`` instead of
+   ``log(bound)`` bits of primes.  The residues come from ``L``'s own entries: the
+   elimination's unit pivots replayed in plain integer arithmetic
+   (:mod:`graphinv.normalform._pivot_replay`), or the level sweep of the multi-modular
+   elimination when many primes are needed.
 
 Directed graphs: the out-degree Laplacian ``L = D_out - A`` with an explicit ``sink``; the group
 is the cokernel of ``L`` with the sink's row and column removed (the sandpile group), and the

@@ -56,7 +56,15 @@ from typing import Any
 
 from graphinv.normalform._matrix import as_sparse_int_rows
 
-__all__ = ["CHUNK", "P_MAX", "float_primes", "float_residues", "level_determinant"]
+__all__ = [
+    "CHUNK",
+    "P_MAX",
+    "dense_determinants_mod",
+    "float_primes",
+    "float_primes_avoiding",
+    "float_residues",
+    "level_determinant",
+]
 
 P_MAX = 1 << 22
 """Every prime used is below this bound, so residue products are below ``2^44``."""
@@ -104,6 +112,41 @@ def float_residues(A: Any, primes: Any) -> Any:
     np.floor(quotient, out=quotient)
     quotient *= p
     return np.subtract(X, quotient, out=quotient)
+
+
+def dense_determinants_mod(A: Any, primes: list[int], batch_entries: int = 1 << 22) -> list[int]:
+    """``det A mod p`` for a square integer array (entries below ``2^53``) and each prime below
+    ``P_MAX``, all primes of a batch in one block LU (``batch_entries`` residues at a time).
+
+    Examples
+    --------
+    >>> import numpy as np
+    >>> dense_determinants_mod(np.array([[2, -1], [-1, 2]]), [5, 7])  # det = 3
+    [3, 3]
+    """
+    import numpy as np
+
+    batch = max(1, batch_entries // max(1, A.size))
+    found: list[int] = []
+    for start in range(0, len(primes), batch):
+        p = np.array(primes[start : start + batch], dtype=np.float64)
+        det = _Arithmetic(p, False).determinant(float_residues(A, p))
+        found.extend(int(d) for d in det.tolist())
+    return found
+
+
+def float_primes_avoiding(count: int, avoid: int) -> list[int] | None:
+    """The ``count`` largest primes below ``P_MAX`` that do not divide ``avoid``; ``None`` if the
+    first ``count + 16`` do not hold that many (``avoid`` has many prime factors near
+    ``P_MAX``).
+
+    Examples
+    --------
+    >>> float_primes_avoiding(2, float_primes(1)[0]) == float_primes(3)[1:]
+    True
+    """
+    primes = [q for q in float_primes(count + 16) if avoid % q][:count]
+    return primes if len(primes) == count else None
 
 
 def float_primes(count: int) -> list[int]:

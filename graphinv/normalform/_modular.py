@@ -5,7 +5,9 @@ Let ``C`` be a ``k`` by ``k`` nonsingular integer matrix with invariant factors
 
 1. **An element of large order.**  For an integer vector ``b``, the order of ``b`` in
    ``Z^k / C Z^k`` is the least common denominator of ``C^{-1} b`` (``C`` and ``C^T`` have the
-   same invariant factors).  Solving ``C x = b`` for two random ``b`` (python-flint's p-adic Dixon solver) gives an order ``s``
+   same invariant factors).  Solving ``C x = b`` for two random ``b`` (p-adic lifting in
+   float64, :mod:`graphinv.normalform._dixon`; python-flint's solver when the entries are too
+   large for it) gives an order ``s``
    with ``s | d_k``; with high probability ``s = d_k`` (Eberly, Giesbrecht, Villard 2000; Pan
    1988).  Whatever ``s`` is, the group has a cyclic subgroup of order ``s``.
 2. **The determinant** ``D = s q`` by the Chinese remainder theorem: ``q`` modulo word-size
@@ -173,22 +175,19 @@ def crt_determinant(
 def _batched_residues(rows: Any, limit: int, divisor: int) -> tuple[dict[int, int], int] | None:
     """``det C / divisor`` modulo primes below ``2^22`` whose product exceeds ``limit``, all
     primes in one batched float64 LU (:mod:`graphinv.normalform._level_determinant`); ``None``
-    for entries of ``2^53`` or more (no exact float residues)."""
+    for entries of ``2^53`` or more (no exact float residues) or too few usable primes."""
     import numpy as np
 
-    from graphinv.normalform._level_determinant import _Arithmetic, float_primes, float_residues
+    from graphinv.normalform._level_determinant import dense_determinants_mod, float_primes_avoiding
 
     A = np.asarray(rows, dtype=np.float64)
-    if np.abs(A).max(initial=0) >= 2.0**53:
+    primes = float_primes_avoiding(limit.bit_length() // 21 + 1, divisor)
+    if primes is None or np.abs(A).max(initial=0) >= 2.0**53:
         return None
-    count = limit.bit_length() // 21 + 1
-    primes = [q for q in float_primes(count + 8) if divisor % q][:count]
-    p = np.array(primes, dtype=np.float64)
-    det = _Arithmetic(p, False).determinant(float_residues(A, p))
     residues: dict[int, int] = {}
     product = 1
-    for q, r in zip(primes, det.tolist(), strict=True):
-        residues[q] = int(r) * pow(divisor % q, -1, q) % q
+    for q, r in zip(primes, dense_determinants_mod(A, primes), strict=True):
+        residues[q] = r * pow(divisor % q, -1, q) % q
         product *= q
     return residues, product
 

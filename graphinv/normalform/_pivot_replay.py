@@ -74,7 +74,7 @@ def replay_determinant(
     """
     import numpy as np
 
-    from graphinv.normalform._level_determinant import _Arithmetic, _check_primes, float_residues
+    from graphinv.normalform._level_determinant import _check_primes, dense_determinants_mod
 
     moduli = _check_primes(primes)
     n = len(rows)
@@ -98,13 +98,7 @@ def replay_determinant(
     sign *= _parity(np.concatenate((prow, rest_rows))) * _parity(np.concatenate((pcol, rest_cols)))
     if len(rest_rows) == 0:
         return [sign % q for q in moduli]
-    rest = A[np.ix_(rest_rows, rest_cols)]
-    batch = max(1, BATCH_ENTRIES // rest.size)  # primes per batch: W k^2 floats at a time
-    found: list[int] = []
-    for start in range(0, len(moduli), batch):
-        p = np.array(moduli[start : start + batch], dtype=np.float64)
-        det = _Arithmetic(p, False).determinant(float_residues(rest, p))
-        found.extend(int(d) for d in det.tolist())
+    found = dense_determinants_mod(A[np.ix_(rest_rows, rest_cols)], moduli, BATCH_ENTRIES)
     return [d * sign % q for d, q in zip(found, moduli, strict=True)]
 
 

@@ -294,15 +294,15 @@ def _replayed_residues(
 ) -> dict[int, int] | None:
     """``{p: det A mod p}`` over primes below ``2^22`` not dividing ``avoid`` whose product
     exceeds ``limit``, by replaying ``pivots``; ``None`` if the replay does not apply."""
-    from graphinv.normalform._level_determinant import float_primes
+    from graphinv.normalform._level_determinant import float_primes_avoiding
     from graphinv.normalform._pivot_replay import replay_determinant
 
     count = limit.bit_length() // 21 + 1  # every prime is above 2^21
     rest = len(rows) - len(pivots)
     if count * rest**3 > REPLAY_WORK:
         return None  # few pivots: a large dense rest, cheaper to sweep the sparse matrix
-    primes = [q for q in float_primes(count + 16) if avoid % q][:count]
-    if len(primes) < count:
+    primes = float_primes_avoiding(count, avoid)
+    if primes is None:
         return None
     found = replay_determinant(rows, pivots, primes)
     return None if found is None else dict(zip(primes, found, strict=True))
